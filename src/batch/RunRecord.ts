@@ -1,0 +1,33 @@
+import type { FitReport } from '../fit/FitReport.js';
+
+export type Direction = 'forward' | 'reverse';
+
+/**
+ * runs/<run>/run.json: the source of truth for one run of a batch. summary.csv and batch.json are
+ * rebuilt from the set of run.json files, which is how shards written into one folder are merged.
+ */
+export interface RunRecord {
+  run: string;
+  /** Video path as given in the manifest, and resolved absolute path. */
+  video: string;
+  video_abs: string;
+  direction: Direction;
+  setting: number | null;
+  setting_unit: string;
+  group: string;
+  notes: string;
+  status: 'ok' | 'failed';
+  /** One sentence, when failed. */
+  error: string | null;
+  /** Effective track and fit settings used (after defaults and per-row overrides). */
+  settings: Record<string, unknown>;
+  /** Hash of input (size + content) and effective settings: the cache key. */
+  cache_key: string;
+  started_at: string;
+  finished_at: string;
+  /** The fit, copied here so the summary needs no other file; null when failed. */
+  fit: FitReport | null;
+  lost_share: number | null;
+  warnings: string[];
+  software: { name: 'revtrace'; version: string };
+}
