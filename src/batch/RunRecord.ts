@@ -30,4 +30,15 @@ export interface RunRecord {
   lost_share: number | null;
   warnings: string[];
   software: { name: 'revtrace'; version: string };
+  /** Added by the batch developer (optional, so older records still read): */
+  /** Manifest data row (1 = first row under the header); orders summary.csv. */
+  row?: number;
+  /** Size and SHA-256 of the input video, as hashed for the cache key. */
+  input?: { size_bytes: number; sha256: string };
+  /** The manifest the run came from. */
+  manifest?: { path: string; sha256: string };
+  /** Wall time spent processing the run, seconds. */
+  elapsed_s?: number;
+  /** Files written in the run folder besides run.json. */
+  outputs?: string[];
 }

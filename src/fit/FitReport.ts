@@ -35,6 +35,20 @@ export interface SteadyResult {
   zero_test: ZeroTest;
   /** Smallest |rate| this run would detect at the given level with 80% power, deg/s. */
   min_detectable_deg_s: number;
+  /** Optional: p-value of a χ² test that all segment rates are equal (small: the rate drifts within the window). */
+  segment_p_value?: number;
+  /** Optional: the angle-noise model behind the interval (white + AR(1) + random walk, fitted to the variogram). */
+  noise?: SteadyNoise;
+}
+
+/** The angle noise the steady fit found: SDs in deg, the AR correlation time in s, the walk in deg/√s. */
+export interface SteadyNoise {
+  white_sd_deg: number;
+  ar_sd_deg: number;
+  ar_time_s: number;
+  walk_deg_per_sqrt_s: number;
+  /** Batches of the batch-means standard error (its Student-t df is batches − 1). */
+  batches: number;
 }
 
 export interface SpinUpResult {

@@ -1,0 +1,88 @@
+import type { Command } from 'commander';
+import { readAngleTable } from '../fit/readAngleTable.js';
+import { fitAngleSeries, type FitModelOption } from '../fit/fitAngleSeries.js';
+import { writeFitOutputs } from '../fit/writeFitOutputs.js';
+import type { Estimate, FitReport } from '../fit/FitReport.js';
+import { InputError } from '../errors.js';
+
+interface FitCliOptions {
+  out: string;
+  model: string;
+  from?: string;
+  to?: string;
+  level: string;
+  margin?: string;
+  seed: string;
+}
+
+/** Parses a numeric option; InputError naming the option otherwise. */
+function numberOption(name: string, text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  const v = Number(text);
+  if (text.trim() === '' || !Number.isFinite(v)) throw new InputError(`${name} must be a number, got "${text}"`);
+  return v;
+}
+
+function show(e: Estimate, unit: string): string {
+  const p = (v: number): string => Number(v.toPrecision(4)).toString();
+  return `${p(e.value)} ${unit} (${Math.round(e.level * 100)}% CI ${p(e.ci[0])} to ${p(e.ci[1])})`;
+}
+
+/** A few lines for a person: the chosen model's headline numbers and any warnings. */
+export function fitSummaryText(report: FitReport, outPath: string): string {
+  const lines = [`model ${report.model}${report.selection?.ambiguous ? ' (ambiguous choice)' : ''}, ${report.n} frames, ${report.window_s[0]}–${report.window_s[1]} s`];
+  const s = report.steady;
+  if (s && report.model === 'steady') {
+    lines.push(`rate ${show(s.rate_deg_s, 'deg/s')} = ${show(s.rate_rpm, 'rpm')}`);
+    lines.push(`differs from zero: p = ${s.zero_test.p_value.toPrecision(3)}; smallest detectable rate ${s.min_detectable_deg_s.toPrecision(3)} deg/s`);
+    if (s.zero_test.margin_deg_s !== undefined) {
+      lines.push(`within ±${s.zero_test.margin_deg_s} deg/s of zero: ${s.zero_test.equivalent_to_zero ? 'yes' : 'not shown'} (TOST p = ${s.zero_test.equivalence_p_value!.toPrecision(3)})`);
+    }
+  }
+  if (report.spinup && report.model === 'spinup') lines.push(`terminal rate ${show(report.spinup.terminal_rate_deg_s, 'deg/s')}, tau ${show(report.spinup.tau_s, 's')}`);
+  if (report.spindown && report.model === 'spindown') lines.push(`initial rate ${show(report.spindown.initial_rate_deg_s, 'deg/s')}`);
+  for (const w of report.diagnostics.warnings) lines.push(`warning: ${w}`);
+  lines.push(`wrote ${outPath} and rate.csv beside it`);
+  return lines.join('\n') + '\n';
+}
+
+/** `revtrace fit <angle.csv> --out <fit.json>`: fits a rotation model to an angle table. */
+export function registerFit(program: Command): void {
+  program
+    .command('fit')
+    .description('fit the rotation rate (steady, spin-up, coast-down or auto) to an angle table; writes fit.json and rate.csv')
+    .argument('<angle.csv>', 'angle table with columns t_s and angle_deg (empty angle = lost frame)')
+    .requiredOption('--out <fit.json>', 'where to write fit.json (rate.csv goes beside it)')
+    .option('--model <name>', 'steady | spinup | spindown | auto', 'steady')
+    .option('--from <s>', 'window start, seconds')
+    .option('--to <s>', 'window end, seconds')
+    .option('--level <p>', 'confidence level of the intervals', '0.95')
+    .option('--margin <deg_s>', 'equivalence margin for the zero test, deg/s (adds a TOST equivalence test)')
+    .option('--seed <n>', 'seed of the nonlinear fits\' bootstrap', '1')
+    .action(async (anglePath: string, o: FitCliOptions) => {
+      if (!['steady', 'spinup', 'spindown', 'auto'].includes(o.model)) {
+        throw new InputError(`--model must be steady, spinup, spindown or auto, got "${o.model}"`);
+      }
+      const level = numberOption('--level', o.level)!;
+      if (!(level > 0 && level < 1)) throw new InputError(`--level must lie between 0 and 1 (e.g. 0.95), got ${o.level}`);
+      const margin = numberOption('--margin', o.margin);
+      if (margin !== undefined && !(margin > 0)) throw new InputError(`--margin must be a positive rate in deg/s, got ${o.margin}`);
+      const seed = numberOption('--seed', o.seed)!;
+      const from = numberOption('--from', o.from);
+      const to = numberOption('--to', o.to);
+      const table = await readAngleTable(anglePath);
+      const result = fitAngleSeries(
+        { t_s: table.t_s, angle_deg: table.angle_deg, lost_share: table.lost_share },
+        {
+          model: o.model as FitModelOption,
+          level,
+          seed,
+          ...(from !== undefined ? { from_s: from } : {}),
+          ...(to !== undefined ? { to_s: to } : {}),
+          ...(margin !== undefined ? { margin_deg_s: margin } : {}),
+        },
+      );
+      await writeFitOutputs(o.out, result);
+      process.stdout.write(fitSummaryText(result.report, o.out));
+    });
+}

@@ -1,0 +1,240 @@
+/**
+ * Coast-down of a freely spinning rotor against Coulomb (constant) and viscous (rate-proportional) friction:
+ *   dω/dt = −c·sign(ω) − k·ω,   ω(ts) = ω0,
+ * c in deg/s², k in 1/s, angles deg counterclockwise positive as displayed, times s. With u = |ω|,
+ * s = sign(ω0), t' = t − ts and x = k·t' the closed form is
+ *   u(t)  = u0·e^(−x) − c·t'·φ1(x)
+ *   θ(t)  = θs + ω0·t'·φ1(x) − s·c·t'²·φ2(x)
+ * with φ1(x) = (1 − e^(−x))/x and φ2(x) = (x − 1 + e^(−x))/x², evaluated by their Taylor series near x = 0,
+ * so pure Coulomb friction (k → 0) needs no division by zero. The rotor stops at
+ *   t_stop = ts + (u0/c)·ln(1 + k·u0/c)/(k·u0/c)      (c > 0; never when c ≤ 0 or 1 + k·u0/c ≤ 0)
+ * and stays at rest after it (Coulomb friction holds it). The window start is ts (the fit does not estimate
+ * when the drive was cut: choose the window from the cut onwards).
+ * Fitted by Levenberg–Marquardt with autoregressive errors (fitDynamicsCurve.ts); start values from a grid
+ * over k and the apparent stop time on which θs, ω0 and s·c enter linearly.
+ */
+import type { SpinDownResult } from './FitReport.js';
+import type { ModelFit } from './ModelFit.js';
+import { type CurveModel, type DynamicsCurveOptions, fitDynamicsCurve, thinSeries } from './fitDynamicsCurve.js';
+import { estimateFromCurve } from './curveEstimate.js';
+import { effectiveSampleSize, lag1Autocorrelation } from './blockBootstrap.js';
+import { checkSeries } from './spinUp.js';
+import { InputError } from '../errors.js';
+
+/** Coast-down parameters: window start ts (s), angle there θs (deg), rate there ω0 (deg/s, signed), Coulomb c (deg/s²), viscous k (1/s). */
+export interface CoastDownParams {
+  start_s: number;
+  theta_start_deg: number;
+  initial_rate_deg_s: number;
+  coulomb_deg_s2: number;
+  viscous_per_s: number;
+}
+
+export interface CoastDownOptions extends DynamicsCurveOptions {
+  /** Confidence level of the intervals. Default 0.95. */
+  level?: number;
+}
+
+const SERIES_LIMIT = 0.5;
+const SERIES_TERMS = 18;
+/** Taylor coefficients in z = −x: φ1 = Σ z^n/(n+1)!, φ2 = Σ z^n/(n+2)!. */
+const PHI1_COEF = Array.from({ length: SERIES_TERMS }, (_, n) => 1 / factorial(n + 1));
+const PHI2_COEF = Array.from({ length: SERIES_TERMS }, (_, n) => 1 / factorial(n + 2));
+
+function factorial(n: number): number {
+  let f = 1;
+  for (let i = 2; i <= n; i++) f *= i;
+  return f;
+}
+
+/** Σ coef[n]·z^n (value) and Σ n·coef[n]·z^(n−1) (slope in z), by Horner's rule. */
+function hornerWithSlope(coef: number[], z: number): [number, number] {
+  let value = coef[coef.length - 1]!;
+  let slope = 0;
+  for (let n = coef.length - 2; n >= 0; n--) {
+    slope = slope * z + value;
+    value = value * z + coef[n]!;
+  }
+  return [value, slope];
+}
+
+/** φ1(x) = (1 − e^(−x))/x and dφ1/dx, with φ1(0) = 1 (series near 0). */
+export function phi1(x: number): [number, number] {
+  if (Math.abs(x) < SERIES_LIMIT) {
+    const [v, dz] = hornerWithSlope(PHI1_COEF, -x);
+    return [v, -dz];
+  }
+  const em = Math.expm1(-x);
+  return [-em / x, -(1 - (1 + x) * (em + 1)) / (x * x)];
+}
+
+/** φ2(x) = (x − 1 + e^(−x))/x² and dφ2/dx, with φ2(0) = 1/2 (series near 0). */
+export function phi2(x: number): [number, number] {
+  if (Math.abs(x) < SERIES_LIMIT) {
+    const [v, dz] = hornerWithSlope(PHI2_COEF, -x);
+    return [v, -dz];
+  }
+  const em = Math.expm1(-x);
+  return [(x + em) / (x * x), (2 - x - (x + 2) * (em + 1)) / (x * x * x)];
+}
+
+/** ln(1 + y)/y, with the value 1 at y = 0. */
+function log1pOverY(y: number): number {
+  if (Math.abs(y) < 1e-5) return 1 - y / 2 + (y * y) / 3;
+  return Math.log1p(y) / y;
+}
+
+/** Time after the window start (s) at which the coast-down stops, or Infinity if it never does. */
+export function coastDownStopAfter_s(u0_deg_s: number, coulomb_deg_s2: number, viscous_per_s: number): number {
+  if (!(coulomb_deg_s2 > 0)) return Infinity;
+  if (u0_deg_s <= 0) return 0;
+  const y = (viscous_per_s * u0_deg_s) / coulomb_deg_s2;
+  if (y <= -1) return Infinity;
+  return (u0_deg_s / coulomb_deg_s2) * log1pOverY(y);
+}
+
+/** Angle (deg) of the coast-down model at time t (s). */
+export function coastDownAngle(params: CoastDownParams): (t_s: number) => number {
+  const { start_s, theta_start_deg, initial_rate_deg_s: w0, coulomb_deg_s2: c, viscous_per_s: k } = params;
+  const s = Math.sign(w0);
+  const stop = coastDownStopAfter_s(Math.abs(w0), c, k);
+  return (t_s) => {
+    const tp = Math.min(t_s - start_s, stop);
+    const x = k * tp;
+    return theta_start_deg + w0 * tp * phi1(x)[0] - s * c * tp * tp * phi2(x)[0];
+  };
+}
+
+/** Rate (deg/s) of the coast-down model at time t (s); 0 after the stop. */
+export function coastDownRate(params: CoastDownParams): (t_s: number) => number {
+  const { start_s, initial_rate_deg_s: w0, coulomb_deg_s2: c, viscous_per_s: k } = params;
+  const s = Math.sign(w0);
+  const stop = coastDownStopAfter_s(Math.abs(w0), c, k);
+  return (t_s) => {
+    const tp = t_s - start_s;
+    if (tp >= stop) return 0;
+    const x = k * tp;
+    return s * (Math.abs(w0) * Math.exp(-x) - c * tp * phi1(x)[0]);
+  };
+}
+
+/** Internal parameter vector p = [θs, ω0, c, k], time relative to the window start. */
+const coastDownCurve: CurveModel = {
+  k: 4,
+  evaluate: (p, t, grad) => {
+    const w0 = p[1]!;
+    const c = p[2]!;
+    const k = p[3]!;
+    const s = w0 < 0 ? -1 : 1;
+    const u0 = Math.abs(w0);
+    // After the stop the angle is frozen at θ(t_stop); since dθ/dt = 0 there, its gradient is the
+    // fixed-time gradient at t_stop (envelope theorem).
+    const tp = Math.min(t, coastDownStopAfter_s(u0, c, k));
+    const x = k * tp;
+    const [f1, d1] = phi1(x);
+    const [f2, d2] = phi2(x);
+    grad[0] = 1;
+    grad[1] = tp * f1;
+    grad[2] = -s * tp * tp * f2;
+    grad[3] = s * (u0 * tp * tp * d1 - c * tp * tp * tp * d2);
+    return p[0]! + w0 * tp * f1 - s * c * tp * tp * f2;
+  },
+};
+
+/** Start values: grid over k and an apparent stop time T; θs, ω0, s·c by linear least squares on t ≤ T. */
+function coastDownStarts(t: Float64Array, y: Float64Array, count: number): Float64Array[] {
+  const n = t.length;
+  const span = t[n - 1]!;
+  const candidates: { rss: number; p: Float64Array }[] = [];
+  const grad = new Float64Array(4);
+  const kValues = [0];
+  for (let a = 0; a < 14; a++) kValues.push((0.03 * 10 ** (a / 4.5)) / span);
+  for (const k of kValues) {
+    for (let b = 1; b <= 10; b++) {
+      const tEnd = (b / 10) * span;
+      // normal equations for basis [1, t·φ1(kt), −t²·φ2(kt)]
+      const ata = new Float64Array(9);
+      const atb = new Float64Array(3);
+      let m = 0;
+      for (let i = 0; i < n && t[i]! <= tEnd; i++, m++) {
+        const x = k * t[i]!;
+        const row = [1, t[i]! * phi1(x)[0], -t[i]! * t[i]! * phi2(x)[0]];
+        for (let r = 0; r < 3; r++) {
+          atb[r] = atb[r]! + row[r]! * y[i]!;
+          for (let c2 = 0; c2 < 3; c2++) ata[r * 3 + c2] = ata[r * 3 + c2]! + row[r]! * row[c2]!;
+        }
+      }
+      if (m < 6) continue;
+      const sol = solve3(ata, atb);
+      if (!sol) continue;
+      const w0 = sol[1]!;
+      const c = sol[2]! * (w0 < 0 ? -1 : 1);
+      const p = Float64Array.of(sol[0]!, w0, c, k);
+      let rss = 0;
+      for (let i = 0; i < n; i++) rss += (y[i]! - coastDownCurve.evaluate(p, t[i]!, grad)) ** 2;
+      if (Number.isFinite(rss)) candidates.push({ rss, p });
+    }
+  }
+  candidates.sort((u, v) => u.rss - v.rss);
+  return candidates.slice(0, count).map((c) => c.p);
+}
+
+/** Solves a symmetric 3×3 system by Cramer's rule; null when singular. */
+function solve3(a: Float64Array, b: Float64Array): Float64Array | null {
+  const det = (m: ArrayLike<number>) =>
+    m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) - m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) + m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!);
+  const d = det(a);
+  let scale = 0;
+  for (const v of a) scale = Math.max(scale, Math.abs(v));
+  if (!(Math.abs(d) > 1e-14 * scale ** 3)) return null;
+  const out = new Float64Array(3);
+  for (let col = 0; col < 3; col++) {
+    const m = Float64Array.from(a);
+    for (let r = 0; r < 3; r++) m[r * 3 + col] = b[r]!;
+    out[col] = det(m) / d;
+  }
+  return out;
+}
+
+/**
+ * Fits the coast-down model to an unwrapped angle series that starts when the drive is cut.
+ * @param t_s       frame times, s, strictly increasing; the first time is the model's start ts
+ * @param angle_deg unwrapped angle, deg, counterclockwise positive as displayed
+ */
+export function fitCoastDown(t_s: Float64Array, angle_deg: Float64Array, options: CoastDownOptions = {}): ModelFit<SpinDownResult> {
+  checkSeries(t_s, angle_deg, 'coast-down', 8);
+  const level = options.level ?? 0.95;
+  const n = t_s.length;
+  const tRef = t_s[0]!;
+  const t = new Float64Array(n);
+  for (let i = 0; i < n; i++) t[i] = t_s[i]! - tRef;
+  const thin = thinSeries(t, angle_deg, options.thinnedPoints ?? 1500);
+  const starts = coastDownStarts(thin.t, thin.y, 3);
+  if (starts.length === 0) throw new InputError('The coast-down fit found no usable start values; check that the angle series is not constant.');
+  const out = fitDynamicsCurve(coastDownCurve, t, angle_deg, starts, { ...options, level });
+  const p = out.params;
+  const params: CoastDownParams = { start_s: tRef, theta_start_deg: p[0]!, initial_rate_deg_s: p[1]!, coulomb_deg_s2: p[2]!, viscous_per_s: p[3]! };
+  const initial = estimateFromCurve(out, 1, level);
+  const stopAfter = coastDownStopAfter_s(Math.abs(params.initial_rate_deg_s), params.coulomb_deg_s2, params.viscous_per_s);
+  const result: SpinDownResult = {
+    initial_rate_deg_s: initial,
+    initial_rate_rpm: { value: initial.value / 6, se: initial.se / 6, ci: [initial.ci[0] / 6, initial.ci[1] / 6], level },
+    coulomb_deg_s2: estimateFromCurve(out, 2, level),
+    viscous_per_s: estimateFromCurve(out, 3, level),
+    stop_s: stopAfter <= t[n - 1]! ? tRef + stopAfter : null,
+  };
+  const warnings: string[] = [];
+  if (!out.converged) warnings.push(`The coast-down fit did not converge (${out.reason}); treat its estimates with caution.`);
+  if (params.coulomb_deg_s2 < 0 || params.viscous_per_s < 0) {
+    warnings.push('The fitted friction is negative (the rotor seems to gain speed), so the coast-down model does not describe this window.');
+  }
+  return {
+    result,
+    candidate: { model: 'spindown', n, k: 4, rss: out.rss, n_eff: effectiveSampleSize(n, lag1Autocorrelation(out.residuals)) },
+    residuals_deg: out.residuals,
+    predict_deg: coastDownAngle(params),
+    rate_deg_s: coastDownRate(params),
+    converged: out.converged,
+    warnings,
+  };
+}

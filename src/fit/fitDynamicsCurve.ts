@@ -1,0 +1,248 @@
+/**
+ * Shared engine of the spin-up and coast-down fits: nonlinear least squares with autoregressive errors.
+ *
+ * 1. Levenberg–Marquardt from candidate starts (first on a thinned copy of the series, then on every point).
+ * 2. An AR(P) model of the residuals, P chosen by AIC (see autoregressiveErrors.ts); P = 0 means white
+ *    residuals and the ordinary covariance s²(JᵀJ)⁻¹ is used.
+ * 3. Otherwise feasible generalised least squares: alternately re-estimate φ from the residuals and refit the
+ *    curve to the whitened residuals a_t = e_t − Σφ_j·e_{t−j} (Cochrane & Orcutt 1949), which converges to
+ *    the joint conditional least-squares estimate of curve and AR parameters. The covariance of the curve
+ *    parameters is s_a²(J_aᵀJ_a)⁻¹ from the whitened problem, s_a² = Σa²/(n − P − k − P) (the AR
+ *    coefficients count as fitted parameters), and intervals use Student's t with that many degrees of freedom.
+ */
+import { levenbergMarquardt, type LeastSquaresProblem, type LevenbergMarquardtResult } from './levenbergMarquardt.js';
+import { chooseAutoregressiveOrder, fitAutoregression, whiten } from './autoregressiveErrors.js';
+import { chooseBlockLength, circularBlockSampler, sampleQuantile } from './blockBootstrap.js';
+
+/** A curve with k parameters: `evaluate` returns the value at time t (s, relative to the window start) and fills ∂value/∂p into `grad`. */
+export interface CurveModel {
+  k: number;
+  evaluate: (p: Float64Array, t: number, grad: Float64Array) => number;
+}
+
+export interface DynamicsCurveOptions {
+  /** Confidence level the bootstrap-t quantiles are computed for. Default 0.95. */
+  level?: number;
+  /** Bootstrap-t replicates (0 turns the bootstrap off). Default 199. */
+  replicates?: number;
+  /** Seed of the bootstrap. Default 1. */
+  seed?: number;
+  /** Longest series that gets the bootstrap-t calibration; longer ones use Student's t. Default 5000. */
+  bootstrapMaxPoints?: number;
+  /** Largest AR order tried for the residuals. Default 8. */
+  maxArOrder?: number;
+  /** Points kept for the start-value search and the first LM pass. Default 1500. */
+  thinnedPoints?: number;
+}
+
+export interface DynamicsCurveFit {
+  /** Curve parameters (internal scale of the model). */
+  params: Float64Array;
+  /** Covariance of the parameters, row-major k×k. */
+  covariance: Float64Array;
+  /** Degrees of freedom for Student-t intervals. */
+  dof: number;
+  /** Raw residuals y − f(t), same length as the data. */
+  residuals: Float64Array;
+  /** Σ residuals². */
+  rss: number;
+  /** AR coefficients of the residuals (empty when white). */
+  phi: Float64Array;
+  converged: boolean;
+  reason: string;
+  /** Per parameter, the bootstrap quantile of |t*| at the requested level (null: use Student's t at `dof`). */
+  tQuantile: Float64Array | null;
+  /** How the bootstrap went (null when not run). */
+  bootstrap: { replicates: number; failed: number; blockLength: number } | null;
+}
+
+/** The least-squares problem of fitting `model` to (t, y). */
+export function curveProblem(model: CurveModel, t: Float64Array, y: Float64Array): LeastSquaresProblem {
+  const n = t.length;
+  const grad = new Float64Array(model.k);
+  return {
+    n,
+    residuals: (p, r) => {
+      for (let i = 0; i < n; i++) r[i] = y[i]! - model.evaluate(p, t[i]!, grad);
+    },
+    jacobian: (p, jac) => {
+      for (let i = 0; i < n; i++) {
+        model.evaluate(p, t[i]!, grad);
+        for (let j = 0; j < model.k; j++) jac[j * n + i] = grad[j]!;
+      }
+    },
+  };
+}
+
+/** The problem of fitting `model` to (t, y) with AR(φ) errors: residuals and Jacobian whitened, n − P rows. */
+function whitenedProblem(model: CurveModel, t: Float64Array, y: Float64Array, phi: Float64Array): LeastSquaresProblem {
+  const n = t.length;
+  const k = model.k;
+  const order = phi.length;
+  const m = n - order;
+  const raw = curveProblem(model, t, y);
+  const e = new Float64Array(n);
+  const g = new Float64Array(n * k);
+  return {
+    n: m,
+    residuals: (p, r) => {
+      raw.residuals(p, e);
+      whiten(e, phi, r);
+    },
+    jacobian: (p, jac) => {
+      raw.jacobian(p, g);
+      for (let j = 0; j < k; j++) whiten(g.subarray(j * n, (j + 1) * n), phi, jac, j * m);
+    },
+  };
+}
+
+/** Every m-th point so that at most `maxPoints` remain (always keeps the last point). */
+export function thinSeries(t: Float64Array, y: Float64Array, maxPoints: number): { t: Float64Array; y: Float64Array } {
+  const n = t.length;
+  if (n <= maxPoints) return { t, y };
+  const step = Math.ceil(n / maxPoints);
+  const count = Math.ceil(n / step);
+  const tt = new Float64Array(count);
+  const yy = new Float64Array(count);
+  for (let i = 0, j = 0; j < count; i += step, j++) {
+    tt[j] = t[Math.min(i, n - 1)]!;
+    yy[j] = y[Math.min(i, n - 1)]!;
+  }
+  tt[count - 1] = t[n - 1]!;
+  yy[count - 1] = y[n - 1]!;
+  return { t: tt, y: yy };
+}
+
+/**
+ * Fits `model` to (t, y) from the best of `starts`, then refits with autoregressive errors.
+ * @param t times, s, relative to the window start, increasing
+ * @param y observed values (angle, deg)
+ */
+export function fitDynamicsCurve(model: CurveModel, t: Float64Array, y: Float64Array, starts: Float64Array[], options: DynamicsCurveOptions = {}): DynamicsCurveFit {
+  const n = t.length;
+  const k = model.k;
+  const thin = thinSeries(t, y, options.thinnedPoints ?? 1500);
+  const thinProblem = curveProblem(model, thin.t, thin.y);
+  let best: Float64Array = starts[0]!;
+  let bestRss = Infinity;
+  for (const start of starts) {
+    try {
+      const pre = levenbergMarquardt(thinProblem, start, { maxIterations: 200, covariance: false, ftol: 1e-12, xtol: 1e-10 });
+      if (pre.rss < bestRss) {
+        bestRss = pre.rss;
+        best = pre.params;
+      }
+    } catch {
+      // the model is not finite at this start: skip it
+    }
+  }
+  const fit = fitWithArErrors(model, t, y, best, options.maxArOrder ?? 8);
+  if (!fit) throw new RangeError('The model is not finite at the best start.');
+  return withBootstrap(model, t, fit, options);
+}
+
+/** From a start: OLS fit, AR order, then feasible GLS; null when the model cannot be evaluated. */
+function fitWithArErrors(model: CurveModel, t: Float64Array, y: Float64Array, start: Float64Array, maxArOrder: number, maxIterations = 100): DynamicsCurveFit | null {
+  const n = t.length;
+  const k = model.k;
+  let ols: LevenbergMarquardtResult;
+  try {
+    ols = levenbergMarquardt(curveProblem(model, t, y), start, { maxIterations });
+  } catch {
+    return null;
+  }
+  const order = chooseAutoregressiveOrder(ols.residuals, Math.min(maxArOrder, Math.floor((n - k) / 20)));
+  if (order === 0) {
+    return { params: ols.params, covariance: ols.covariance, dof: ols.dof, residuals: ols.residuals, rss: ols.rss, phi: new Float64Array(0), converged: ols.converged, reason: ols.reason, tQuantile: null, bootstrap: null };
+  }
+  let p = ols.params;
+  let e = ols.residuals;
+  let phi = fitAutoregression(e, order);
+  let gls: LevenbergMarquardtResult = ols;
+  for (let round = 0; round < 12; round++) {
+    gls = levenbergMarquardt(whitenedProblem(model, t, y, phi), p, { maxIterations });
+    p = gls.params;
+    e = new Float64Array(n);
+    curveProblem(model, t, y).residuals(p, e);
+    const next = fitAutoregression(e, order);
+    let change = 0;
+    for (let j = 0; j < order; j++) change = Math.max(change, Math.abs(next[j]! - phi[j]!));
+    phi = next;
+    if (change < 1e-4) break;
+  }
+  const m = n - order;
+  const dof = m - k - order;
+  // The whitened LM covariance used s² = Σa²/(m − k); count the AR coefficients as fitted too.
+  const covariance = gls.covariance.map((v) => (v * (m - k)) / dof);
+  let rss = 0;
+  for (let i = 0; i < n; i++) rss += e[i]! * e[i]!;
+  return { params: p, covariance, dof, residuals: e, rss, phi, converged: gls.converged, reason: gls.reason, tQuantile: null, bootstrap: null };
+}
+
+/**
+ * Bootstrap-t calibration of the intervals (Efron & Tibshirani 1993, ch. 12; symmetric form, Hall 1988) with
+ * an autoregressive sieve bootstrap of the noise (Kreiss 1992; Bühlmann 1997): each replicate rebuilds noise
+ * from the fitted AR(P) driven by circular-block-resampled innovations (blocks keep any dependence the AR
+ * model missed; the block length is chosen from the innovations and is 1 when they are white), adds it to the
+ * fitted curve and repeats the whole fit; |t*| = |q* − q̂|/se* gives the interval half-width in units of se.
+ * This corrects the too-narrow intervals of short series, whose residuals under-represent slow noise that the
+ * curve has absorbed.
+ */
+function withBootstrap(model: CurveModel, t: Float64Array, fit: DynamicsCurveFit, options: DynamicsCurveOptions): DynamicsCurveFit {
+  const n = t.length;
+  const k = model.k;
+  const replicates = options.replicates ?? 199;
+  if (replicates < 20 || n > (options.bootstrapMaxPoints ?? 5000)) return fit;
+  const level = options.level ?? 0.95;
+  const order = fit.phi.length;
+  const innovations = new Float64Array(n - order);
+  whiten(fit.residuals, fit.phi, innovations);
+  let mean = 0;
+  for (const a of innovations) mean += a;
+  mean /= innovations.length;
+  for (let i = 0; i < innovations.length; i++) innovations[i] = innovations[i]! - mean;
+  const sampler = circularBlockSampler(innovations, chooseBlockLength(innovations), options.seed ?? 1);
+  const burn = Math.min(200, 10 * order);
+  const drawn = new Float64Array(innovations.length);
+  const fitted = new Float64Array(n);
+  for (let i = 0; i < n; i++) fitted[i] = 0;
+  const grad = new Float64Array(k);
+  for (let i = 0; i < n; i++) fitted[i] = model.evaluate(fit.params, t[i]!, grad);
+  const yStar = new Float64Array(n);
+  const noise = new Float64Array(n + burn);
+  const tAbs: Float64Array[] = Array.from({ length: k }, () => new Float64Array(replicates));
+  let used = 0;
+  let failed = 0;
+  for (let r = 0; r < replicates; r++) {
+    // Noise: AR recursion over burn-in + n samples, innovations drawn in blocks (refilled as needed).
+    let cursor = drawn.length;
+    for (let i = 0; i < n + burn; i++) {
+      if (cursor === drawn.length) {
+        sampler.resample(drawn);
+        cursor = 0;
+      }
+      let v = drawn[cursor++]!;
+      for (let j = 0; j < order && i - j - 1 >= 0; j++) v += fit.phi[j]! * noise[i - j - 1]!;
+      noise[i] = v;
+    }
+    for (let i = 0; i < n; i++) yStar[i] = fitted[i]! + noise[burn + i]!;
+    const f = fitWithArErrors(model, t, yStar, fit.params, options.maxArOrder ?? 8, 50);
+    if (!f) {
+      failed++;
+      continue;
+    }
+    let ok = true;
+    for (let j = 0; j < k; j++) {
+      const se = Math.sqrt(f.covariance[j * k + j]!);
+      const v = Math.abs(f.params[j]! - fit.params[j]!) / se;
+      if (!Number.isFinite(v)) ok = false;
+      tAbs[j]![used] = v;
+    }
+    if (ok) used++;
+    else failed++;
+  }
+  if (used < 20) return fit;
+  const tQuantile = new Float64Array(k);
+  for (let j = 0; j < k; j++) tQuantile[j] = sampleQuantile(tAbs[j]!.subarray(0, used), level);
+  return { ...fit, tQuantile, bootstrap: { replicates: used, failed, blockLength: sampler.blockLength } };
+}

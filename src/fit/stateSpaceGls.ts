@@ -1,0 +1,71 @@
+import type { AngleNoiseModel } from './angleNoiseModel.js';
+
+/** The whitened regression y* = c·one* + ω·t* + e* produced by kalmanWhiten (innovations divided by their SD). */
+export interface WhitenedRegression {
+  one: Float64Array;
+  t: Float64Array;
+  y: Float64Array;
+}
+
+/**
+ * Whitens the regression y_k = c + ω·t_k + u_k, u = white + AR(1) + random walk (an AngleNoiseModel), by a
+ * Kalman filter on the noise state (AR part, walk part) run over y and over both regressors with the same
+ * gains: the standardised innovations turn generalised least squares into ordinary least squares
+ * (Harvey, Forecasting, Structural Time Series Models and the Kalman Filter, 1989, §3.4; the
+ * "diffuse regression" form of Kalman GLS). Irregular times are exact: the AR coefficient over Δt is
+ * exp(−Δt/τ_c) and the walk variance q·Δt. The walk starts at 0 (its level is absorbed by c) and the AR
+ * part from its stationary distribution.
+ * @param lo,hi row range [lo, hi)
+ */
+export function kalmanWhiten(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel): WhitenedRegression {
+  const m = hi - lo;
+  const out: WhitenedRegression = { one: new Float64Array(m), t: new Float64Array(m), y: new Float64Array(m) };
+  const s2 = model.ar_var_deg2;
+  const q = model.walk_deg2_per_s;
+  const total = model.white_var_deg2 + s2 + q * Math.max(0, t[hi - 1]! - t[lo]!);
+  // a tiny white floor keeps every innovation variance positive (e.g. a pure random walk's first frame)
+  const r = Math.max(model.white_var_deg2, 1e-10 * total, Number.MIN_VALUE);
+  let p11 = s2;
+  let p12 = 0;
+  let p22 = 0;
+  // state means (AR part a, walk part w) for each of the three series: y, one, t
+  let ay = 0, wy = 0, a1 = 0, w1 = 0, at = 0, wt = 0;
+  for (let k = lo; k < hi; k++) {
+    if (k > lo) {
+      const dt = t[k]! - t[k - 1]!;
+      const phi = s2 > 0 ? Math.exp(-dt / model.ar_time_s) : 0;
+      p11 = phi * phi * p11 + s2 * (1 - phi * phi);
+      p12 = phi * p12;
+      p22 = p22 + q * dt;
+      ay *= phi;
+      a1 *= phi;
+      at *= phi;
+    }
+    const h1 = p11 + p12;
+    const h2 = p12 + p22;
+    const f = h1 + h2 + r;
+    const sd = Math.sqrt(f);
+    const k1 = h1 / f;
+    const k2 = h2 / f;
+    const ey = y[k]! - ay - wy;
+    const e1 = 1 - a1 - w1;
+    const et = t[k]! - at - wt;
+    const i = k - lo;
+    out.y[i] = ey / sd;
+    out.one[i] = e1 / sd;
+    out.t[i] = et / sd;
+    ay += k1 * ey;
+    wy += k2 * ey;
+    a1 += k1 * e1;
+    w1 += k2 * e1;
+    at += k1 * et;
+    wt += k2 * et;
+    const n11 = p11 - k1 * h1;
+    const n12 = p12 - k1 * h2;
+    const n22 = p22 - k2 * h2;
+    p11 = n11;
+    p12 = n12;
+    p22 = n22;
+  }
+  return out;
+}

@@ -1,0 +1,42 @@
+/** Decimal places that show a standard error to two significant digits (0–6). */
+export function decimalsFor(se: number): number {
+  if (!(se > 0) || !Number.isFinite(se)) return 3;
+  return Math.min(6, Math.max(0, 1 - Math.floor(Math.log10(se))));
+}
+
+/** A number with fixed decimals, a true minus sign, '—' for NaN and ±∞ spelled out. */
+export function formatFixed(value: number, decimals: number): string {
+  if (Number.isNaN(value)) return '—';
+  if (!Number.isFinite(value)) return value > 0 ? '+∞' : '−∞';
+  const s = value.toFixed(decimals);
+  return s.startsWith('-') ? `−${s.slice(1)}` : s;
+}
+
+/** value [lo, hi] with decimals chosen from the standard error. */
+export function formatInterval(value: number, ci: readonly [number, number], se: number): string {
+  const d = decimalsFor(se);
+  return `${formatFixed(value, d)} [${formatFixed(ci[0], d)}, ${formatFixed(ci[1], d)}]`;
+}
+
+/** A rate in deg/s with its interval, and the same in rpm (1 rpm = 6 deg/s). */
+export function formatRate(value_deg_s: number, ci_deg_s: readonly [number, number], se_deg_s: number): { deg_s: string; rpm: string } {
+  return {
+    deg_s: formatInterval(value_deg_s, ci_deg_s, se_deg_s),
+    rpm: formatInterval(value_deg_s / 6, [ci_deg_s[0] / 6, ci_deg_s[1] / 6], se_deg_s / 6),
+  };
+}
+
+/** A p-value: three significant digits, '< 0.001' below that. */
+export function formatP(p: number): string {
+  if (Number.isNaN(p)) return '—';
+  if (p < 0.001) return '< 0.001';
+  return p.toPrecision(2).replace(/^0\.(\d)$/, '0.$10');
+}
+
+/** A number to n significant digits with a true minus sign. */
+export function formatSig(value: number, digits = 3): string {
+  if (Number.isNaN(value)) return '—';
+  if (!Number.isFinite(value)) return value > 0 ? '+∞' : '−∞';
+  const s = Math.abs(value) >= 1e5 || (Math.abs(value) < 1e-3 && value !== 0) ? value.toExponential(digits - 1) : String(Number(value.toPrecision(digits)));
+  return s.startsWith('-') ? `−${s.slice(1)}` : s;
+}

@@ -1,0 +1,71 @@
+import type { RunData } from './ReportData.js';
+
+/** One data-quality finding about a run, in plain words. */
+export interface QualityNote {
+  /** Short label, e.g. a flag as written in angle.csv. */
+  label: string;
+  words: string;
+  /** True when it can change the conclusion (shown among the warnings at the top). */
+  serious: boolean;
+}
+
+const pct = (x: number): string => `${(100 * x).toFixed(x < 0.01 ? 2 : 1)}%`;
+
+/** Plain-word meaning of a frame flag from angle.csv, by the words it contains. */
+export function explainFlag(flag: string, count: number, total: number): string {
+  const share = total > 0 ? ` (${pct(count / total)} of frames)` : '';
+  const f = flag.toLowerCase();
+  const frames = `${count} frame${count === 1 ? '' : 's'}${share}`;
+  if (/gate|jump/.test(f)) return `${frames}: the marker seemed to jump further than the rotor can turn between two frames, so the position was set aside as probably a bubble, particle or reflection.`;
+  if (/blob|no-marker|not-found|missing|none/.test(f)) return `${frames}: no marker was found — it may have been hidden by a bubble or glare, or left the region of interest.`;
+  if (/quality|weak|contrast|ambig/.test(f)) return `${frames}: the marker was found but too faintly or ambiguously to trust.`;
+  if (/decode|drop|dup/.test(f)) return `${frames}: the video itself had a problem at these frames (dropped, repeated or undecodable).`;
+  if (/shake|motion|anchor/.test(f)) return `${frames}: the camera moved too much to correct reliably.`;
+  if (/glare|flicker|bright|exposure/.test(f)) return `${frames}: the lighting changed sharply (flicker or glare).`;
+  if (/split|gap/.test(f)) return `${frames}: a gap too long to bridge safely; the angle count restarts after it.`;
+  return `${frames} carry this flag; it has no longer explanation here — see angle.csv.`;
+}
+
+/** Data-quality findings for a run: flags, lost frames, camera, fit diagnostics and the stages' own warnings. */
+export function qualityNotes(run: RunData): QualityNote[] {
+  const notes: QualityNote[] = [];
+  const { record, track, fit, angle } = run;
+  if (record.status === 'failed') notes.push({ label: 'run failed', words: record.error ?? 'The run failed without a recorded reason.', serious: true });
+  for (const p of run.problems) notes.push({ label: 'missing file', words: p, serious: true });
+  if (angle) {
+    const total = angle.t_s.length;
+    for (const [flag, count] of Object.entries(angle.flag_counts).sort((a, b) => b[1] - a[1])) {
+      notes.push({ label: flag, words: explainFlag(flag, count, total), serious: count / Math.max(1, total) > 0.05 });
+    }
+  }
+  const lost = record.lost_share ?? fit?.diagnostics.lost_share ?? null;
+  if (lost !== null && lost > 0.05) notes.push({ label: 'many lost frames', words: `${pct(lost)} of frames were lost; the rate rests on the rest, but check the quality chart for long gaps.`, serious: true });
+  if (track) {
+    if (track.input.variable_frame_rate) notes.push({ label: 'variable frame rate', words: 'The video has a variable frame rate (typical of phones); each frame’s own time stamp was used, not a nominal rate.', serious: false });
+    const v = track.view;
+    if (v && v.axis_ratio < 0.97) {
+      notes.push({
+        label: 'oblique camera',
+        words: `The marker path is an ellipse (axis ratio ${v.axis_ratio.toFixed(3)}, about ${v.tilt_deg.value.toFixed(1)}° from face-on); ${v.corrected ? `angles were corrected for it (largest correction ${v.max_correction_deg.toFixed(1)}°).` : 'angles were not corrected for it.'}`,
+        serious: !v.corrected && v.axis_ratio < 0.9,
+      });
+    }
+    const cm = track.camera_motion;
+    if (cm && cm.max_shift_px > 1) notes.push({ label: 'camera moved', words: `The camera moved by up to ${cm.max_shift_px.toFixed(1)} px and turned by up to ${cm.max_rotation_deg.toFixed(2)}°; this was measured against a fixed anchor and removed.`, serious: false });
+    if (track.splits.length > 0) notes.push({ label: 'track split', words: `The track was interrupted ${track.splits.length} time${track.splits.length === 1 ? '' : 's'} for longer than can be bridged safely (longest ${Math.max(...track.splits.map((s) => s.gap_s)).toFixed(2)} s); the angle count restarts after each break.`, serious: true });
+    for (const w of track.warnings) notes.push({ label: 'tracking', words: w, serious: true });
+  }
+  if (fit) {
+    const r1 = fit.diagnostics.residual_autocorrelation[0];
+    if (r1 !== undefined && r1 > 0.5) notes.push({ label: 'correlated residuals', words: `Residuals are strongly correlated from frame to frame (lag-1 correlation ${r1.toFixed(2)}): the rotor does not turn perfectly evenly or the marker wobbles. Intervals come from the fit method (${fit.method}).`, serious: false });
+    if (fit.selection?.ambiguous) notes.push({ label: 'model choice unclear', words: 'Two models describe the angle about equally well; the chosen one is shown, but the other is nearly as good.', serious: true });
+    const z = fit.steady?.zero_test;
+    if (z && fit.steady && z.p_value >= 1 - fit.steady.rate_deg_s.level) {
+      notes.push({ label: 'rate near zero', words: `The rate is not distinguishable from zero (p = ${z.p_value.toPrecision(2)}); this run would detect a rate of about ${fit.steady.min_detectable_deg_s.toPrecision(2)} deg/s.`, serious: false });
+    }
+    for (const w of fit.diagnostics.warnings) notes.push({ label: 'fit', words: w, serious: true });
+  }
+  const seen = new Set(notes.map((n) => n.words));
+  for (const w of record.warnings) if (!seen.has(w)) notes.push({ label: 'batch', words: w, serious: true });
+  return notes;
+}

@@ -1,0 +1,85 @@
+/**
+ * Robust weights for a polar image compared with a reference turned by shift_bins: residuals
+ * e = cur − mean_r(cur) − g·(ref(θ − shift) − mean_r(ref)) per sample (linear interpolation along the angle,
+ * one gain g over the image), scaled by 1.4826 × their median absolute value, and weighted with Tukey's
+ * biweight, w = (1 − (e / (c·σ))²)² inside c·σ, 0 outside (c = 4.685; Huber & Ronchetti, Robust
+ * Statistics, 2009 — cited from memory). Samples covered by something that does not turn with the hub
+ * (a bubble, glare) get weight 0. Both images are rows × bins, row-major.
+ */
+export function outlierWeights(cur: Float64Array, ref: Float64Array, rows: number, bins: number, shift_bins: number, tuning = 4.685): Float64Array {
+  const n = rows * bins;
+  const shifted = new Float64Array(n);
+  const centred = new Float64Array(n);
+  const whole = Math.floor(shift_bins);
+  const frac = shift_bins - whole;
+  for (let r = 0; r < rows; r++) {
+    const base = r * bins;
+    let meanCur = 0;
+    let meanRef = 0;
+    for (let j = 0; j < bins; j++) {
+      meanCur += cur[base + j];
+      meanRef += ref[base + j];
+    }
+    meanCur /= bins;
+    meanRef /= bins;
+    for (let j = 0; j < bins; j++) {
+      // ref(θ − s) at bin j: between bins j − whole − 1 and j − whole.
+      const a = ref[base + ((((j - whole) % bins) + bins) % bins)];
+      const b = ref[base + ((((j - whole - 1) % bins) + bins) % bins)];
+      shifted[base + j] = a + frac * (b - a) - meanRef;
+      centred[base + j] = cur[base + j] - meanCur;
+    }
+  }
+  let sxy = 0;
+  let sxx = 0;
+  for (let i = 0; i < n; i++) {
+    sxy += shifted[i] * centred[i];
+    sxx += shifted[i] * shifted[i];
+  }
+  const gain = sxx > 0 ? sxy / sxx : 0;
+  const residual = new Float64Array(n);
+  for (let i = 0; i < n; i++) residual[i] = Math.abs(centred[i] - gain * shifted[i]);
+  const sorted = Float64Array.from(residual).sort();
+  const median = n % 2 ? sorted[(n - 1) / 2] : 0.5 * (sorted[n / 2 - 1] + sorted[n / 2]);
+  const limit = tuning * 1.4826 * median;
+  const weights = new Float64Array(n);
+  if (!(limit > 0)) return weights.fill(1);
+  for (let i = 0; i < n; i++) {
+    const z = residual[i] / limit;
+    weights[i] = z < 1 ? (1 - z * z) ** 2 : 0;
+  }
+  return weights;
+}
+
+/** Each row minus its weighted mean, times the weights: what is left of an image once its outliers are masked. */
+export function applyRowWeights(polar: Float64Array, weights: Float64Array, rows: number, bins: number): Float64Array {
+  const out = new Float64Array(rows * bins);
+  for (let r = 0; r < rows; r++) {
+    const base = r * bins;
+    let sw = 0;
+    let swx = 0;
+    for (let j = 0; j < bins; j++) {
+      sw += weights[base + j];
+      swx += weights[base + j] * polar[base + j];
+    }
+    const mean = sw > 0 ? swx / sw : 0;
+    for (let j = 0; j < bins; j++) out[base + j] = weights[base + j] * (polar[base + j] - mean);
+  }
+  return out;
+}
+
+/** Weights carried along with the texture: w_ref(θ) = w(θ + shift_bins), linear interpolation along the angle. */
+export function shiftRowWeights(weights: Float64Array, rows: number, bins: number, shift_bins: number): Float64Array {
+  const out = new Float64Array(rows * bins);
+  const whole = Math.floor(shift_bins);
+  const frac = shift_bins - whole;
+  for (let r = 0; r < rows; r++) {
+    const base = r * bins;
+    for (let j = 0; j < bins; j++) {
+      const a = weights[base + ((((j + whole) % bins) + bins) % bins)];
+      const b = weights[base + ((((j + whole + 1) % bins) + bins) % bins)];
+      out[base + j] = a + frac * (b - a);
+    }
+  }
+  return out;
+}

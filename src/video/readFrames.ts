@@ -1,0 +1,145 @@
+import { InputError } from '../errors.js';
+import { FfmpegError } from './FfmpegError.js';
+import type { Frame } from './Frame.js';
+import { locateFfmpeg } from './locateTools.js';
+import { probeVideoHeader } from './probeVideo.js';
+import type { VideoHeader } from './probeVideo.js';
+import { runTool } from './runTool.js';
+
+/** A rectangle in full-frame displayed pixels (rotation applied): left, top, width, height. */
+export interface RoiPx {
+  x: number;
+  y: number;
+  w: number;
+  h: number;
+}
+
+/** What readFrames decodes and how. */
+export interface ReadFramesOptions {
+  /** ffmpeg executable (default: located by locateTools). */
+  ffmpeg?: string;
+  /** ffprobe executable, used for the frame size (default: located by locateTools). */
+  ffprobe?: string;
+  /** 'gray' (luma, full range 0–255; default) or 'rgb' (3 bytes per pixel). */
+  pixels?: 'gray' | 'rgb';
+  /** Crop, applied inside ffmpeg after the display rotation; frames come back at the ROI size. Default: whole frame. */
+  roi?: RoiPx;
+  /** First frame time to return, seconds (fast seek to the keyframe before, then exact). Default: start. */
+  from_s?: number;
+  /** Frames at or after this time are not returned, seconds. Default: to the end. */
+  to_s?: number;
+  /** Stops decoding: the iteration throws the signal's reason and ffmpeg is killed. */
+  signal?: AbortSignal;
+  /** Header already read with probeVideoHeader (saves one ffprobe run). */
+  header?: VideoHeader;
+}
+
+/** Matches the per-frame line of ffmpeg's showinfo filter: "n: 12 pts: 480000 ...". */
+const SHOWINFO_LINE = /^\[Parsed_showinfo_\d+ @ [^\]]+\] n:\s*(\d+)\s+pts:\s*(\S+)/;
+/** Other showinfo output (configuration and side-data lines), kept out of the error tail. */
+const SHOWINFO_OTHER = /^\[Parsed_showinfo_\d+ @ /;
+/** Timestamps pass through the filter graph in microseconds (settb=AVTB), so t_s is exact to 1 µs. */
+const TICKS_PER_S = 1_000_000;
+
+/** Checks an ROI against the displayed frame size; InputError naming the problem otherwise. */
+export function checkRoi(roi: RoiPx, width: number, height: number, file: string): void {
+  const { x, y, w, h } = roi;
+  if (![x, y, w, h].every(Number.isInteger) || w < 1 || h < 1 || x < 0 || y < 0 || x + w > width || y + h > height) {
+    throw new InputError(`Region of interest ${x},${y},${w},${h} (x,y,w,h) does not lie inside the ${width}×${height} frame of ${file}; give whole pixels inside it.`);
+  }
+}
+
+/**
+ * Decodes a video to frames, one per decoded frame, each with its own presentation time.
+ * One ffmpeg process decodes, rotates for display, crops to the ROI and converts to gray or RGB;
+ * its stdout is read with backpressure (a slow consumer pauses ffmpeg, memory stays flat).
+ * Per-frame times come from ffmpeg's showinfo filter on stderr, in the same process as the pixels,
+ * so times and frames cannot drift apart (frames pass through with `-vsync passthrough`, or
+ * `-fps_mode passthrough` on newer ffmpeg: nothing duplicated or dropped). Timestamps are kept as
+ * stored (-copyts): t_s is the presentation time ffprobe reports for the same frame.
+ * Breaking out of the loop or aborting the signal kills ffmpeg; failures are FfmpegError with the stderr tail.
+ */
+export async function* readFrames(path: string, options: ReadFramesOptions = {}): AsyncGenerator<Frame, void, undefined> {
+  const pixels = options.pixels ?? 'gray';
+  if (pixels !== 'gray' && pixels !== 'rgb') throw new InputError(`pixels must be 'gray' or 'rgb', not '${String(pixels)}'.`);
+  const from_s = options.from_s ?? -Infinity;
+  const to_s = options.to_s ?? Infinity;
+  if (Number.isNaN(from_s) || Number.isNaN(to_s) || to_s <= from_s) throw new InputError(`The time window ${options.from_s ?? 'start'}–${options.to_s ?? 'end'} s is empty; give from < to.`);
+  const header = options.header ?? await probeVideoHeader(path, { ffprobe: options.ffprobe });
+  const roi = options.roi ?? { x: 0, y: 0, w: header.width, h: header.height };
+  if (options.roi) checkRoi(roi, header.width, header.height, path);
+  const ffmpeg = await locateFfmpeg({ ffmpeg: options.ffmpeg });
+  const channels = pixels === 'gray' ? 1 : 3;
+  const frameBytes = roi.w * roi.h * channels;
+
+  const filters = [
+    ...(options.roi ? [`crop=${roi.w}:${roi.h}:${roi.x}:${roi.y}:exact=1`] : []),
+    `format=${pixels === 'gray' ? 'gray' : 'rgb24'}`,
+    'settb=AVTB',
+    'showinfo',
+  ];
+  const seek_s = Number.isFinite(from_s) ? from_s - header.start_s - 0.002 : 0;
+  const args = [
+    '-hide_banner', '-nostats', '-nostdin', '-loglevel', 'info', '-copyts',
+    ...(seek_s > 0 ? ['-ss', seek_s.toFixed(6)] : []),
+    '-i', path,
+    '-map', `0:${header.stream_index}`, '-an', '-sn', '-dn',
+    '-vf', filters.join(','),
+    ...ffmpeg.passthroughArgs,
+    '-f', 'rawvideo', '-pix_fmt', pixels === 'gray' ? 'gray' : 'rgb24', 'pipe:1',
+  ];
+
+  const times: number[] = []; // showinfo times not yet paired with a frame (a handful at most)
+  let timesEnded = false;
+  let wake: (() => void) | undefined;
+  const onStderrLine = (line: string): boolean => {
+    const m = SHOWINFO_LINE.exec(line);
+    if (m) {
+      times.push(m[2] === 'NOPTS' ? NaN : Number(m[2]) / TICKS_PER_S);
+      wake?.();
+      return true;
+    }
+    return SHOWINFO_OTHER.test(line);
+  };
+  const onStderrEnd = (): void => { timesEnded = true; wake?.(); };
+  const nextTime = async (): Promise<number | undefined> => {
+    while (times.length === 0 && !timesEnded) await new Promise<void>((resolve) => { wake = resolve; });
+    wake = undefined;
+    return times.shift();
+  };
+
+  let index = 0;
+  let decoded = 0;
+  let frame = new Uint8Array(frameBytes);
+  let filled = 0;
+  const run = runTool(ffmpeg.path, args, { tool: 'ffmpeg', file: path, signal: options.signal, onStderrLine, onStderrEnd });
+  try {
+    for await (const chunk of run) {
+      let at = 0;
+      while (at < chunk.length) {
+        const n = Math.min(frameBytes - filled, chunk.length - at);
+        frame.set(chunk.subarray(at, at + n), filled);
+        filled += n;
+        at += n;
+        if (filled < frameBytes) continue;
+        const t_s = await nextTime();
+        if (t_s === undefined || Number.isNaN(t_s)) {
+          throw new FfmpegError(`ffmpeg gave no presentation time for frame ${decoded} of ${path}; the file's timestamps may be damaged.`, { file: path, exitCode: null, stderrTail: '' });
+        }
+        decoded += 1;
+        const data = frame;
+        frame = new Uint8Array(frameBytes);
+        filled = 0;
+        if (t_s < from_s) continue;
+        if (t_s >= to_s) return;
+        yield { index, t_s, width: roi.w, height: roi.h, channels, data };
+        index += 1;
+      }
+    }
+    if (filled !== 0) {
+      throw new FfmpegError(`ffmpeg stopped in the middle of frame ${decoded} of ${path}.`, { file: path, exitCode: 0, stderrTail: '' });
+    }
+  } finally {
+    await run.return(undefined);
+  }
+}

@@ -1,0 +1,90 @@
+// The batch through the real pipeline (track → fit → outputs) on six synthetic runs rendered here
+// with known truth: both directions, two settings, replicates. Runs the built CLI (`npm run build` first).
+import { beforeAll, describe, expect, it } from 'vitest';
+import { spawn, spawnSync } from 'node:child_process';
+import { mkdir, mkdtemp, readdir, readFile, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { parse } from 'csv-parse/sync';
+import { renderClip } from '../../src/synth/renderClip.js';
+
+const bin = fileURLToPath(new URL('../../bin/revtrace', import.meta.url));
+
+// run id, direction, setting, true steady rate (deg/s, counterclockwise as seen), seed
+const RUNS: [string, 'forward' | 'reverse', number, number, number][] = [
+  ['fwd-1a', 'forward', 1, 90, 11],
+  ['fwd-1b', 'forward', 1, 93, 12],
+  ['fwd-2a', 'forward', 2, 180, 13],
+  ['rev-1a', 'reverse', 1, -6, 14],
+  ['rev-1b', 'reverse', 1, -5.5, 15],
+  ['rev-2a', 'reverse', 2, -12, 16],
+];
+
+let dir = '';
+const truth = new Map<string, number>();
+
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'revtrace-real-batch-'));
+  await mkdir(join(dir, 'clips'));
+  const lines = ['video,run,direction,setting,setting_unit'];
+  for (const [run, direction, setting, rate, seed] of RUNS) {
+    const clip = await renderClip({
+      seed, width_px: 320, height_px: 240, fps: 30, duration_s: 2,
+      markers: [{ kind: 'bright', size_px: 5 }],
+      profile: { kind: 'steady', angle0_deg: seed * 17, rate_deg_s: rate },
+      realism: { noise_sigma: 3 },
+    }, join(dir, 'clips', `${run}.mp4`));
+    // the renderer's truth: the rate column of its truth table (constant for a steady profile)
+    truth.set(run, clip.truth.rate_deg_s[0]!);
+    lines.push(`clips/${run}.mp4,${run},${direction},${setting},L/min`);
+  }
+  await writeFile(join(dir, 'day.csv'), `${lines.join('\n')}\n`);
+  await writeFile(join(dir, 'day.defaults.json'), JSON.stringify({ marker: 'bright', model: 'steady' }));
+});
+
+const summaryOf = async (out: string) => parse(await readFile(join(out, 'summary.csv')), { columns: true }) as Record<string, string>[];
+
+describe('batch through the real pipeline', () => {
+  it('tracks and fits six runs; each true rate lies inside its interval in summary.csv', async () => {
+    const out = join(dir, 'out');
+    const r = spawnSync(process.execPath, [bin, 'batch', 'day.csv', '--out', out, '--jobs', '2', '--json'], { cwd: dir, encoding: 'utf8' });
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    const rows = await summaryOf(out);
+    expect(rows.map((x) => x.run)).toEqual(RUNS.map(([run]) => run));
+    for (const row of rows) {
+      const t = truth.get(row.run!)!;
+      expect(row.status, row.run).toBe('ok');
+      expect(Number(row.rate_lo_deg_s), row.run).toBeLessThanOrEqual(t);
+      expect(Number(row.rate_hi_deg_s), row.run).toBeGreaterThanOrEqual(t);
+      expect(Number(row.rate_rpm)).toBeCloseTo(Number(row.rate_deg_s) / 6, 6); // 1 rpm = 360 deg / 60 s
+    }
+    expect((await readdir(join(out, 'runs', 'rev-1a'))).sort()).toEqual(['angle.csv', 'fit.json', 'preview.png', 'rate.csv', 'run.json', 'track.json']);
+    const events = r.stdout.trim().split('\n').map((l) => JSON.parse(l) as { event: string });
+    expect(events.filter((e) => e.event === 'done').length).toBe(6);
+
+    // a second batch finds nothing to do
+    const again = spawnSync(process.execPath, [bin, 'batch', 'day.csv', '--out', out, '--json'], { cwd: dir, encoding: 'utf8' });
+    expect(again.status).toBe(0);
+    expect(again.stdout.split('\n').filter((l) => l.includes('"event":"cached"')).length).toBe(6);
+
+    // killed with SIGKILL mid-run, then run again: the same summary as the uninterrupted batch
+    const killed = join(dir, 'killed');
+    await new Promise<void>((resolve, reject) => {
+      const child = spawn(process.execPath, [bin, 'batch', 'day.csv', '--out', killed, '--jobs', '2', '--json'], { cwd: dir, stdio: ['ignore', 'pipe', 'inherit'] });
+      let text = '';
+      child.stdout.on('data', (c: Buffer) => {
+        text += c.toString();
+        if (text.includes('"event":"done"') && text.includes('"event":"progress"')) child.kill('SIGKILL');
+      });
+      child.on('exit', (_code, signal) => (signal === 'SIGKILL' ? resolve() : reject(new Error('the batch finished before it was killed'))));
+    });
+    expect(await readdir(killed)).not.toContain('summary.csv');
+    const rerun = spawnSync(process.execPath, [bin, 'batch', 'day.csv', '--out', killed, '--jobs', '2', '--quiet'], { cwd: dir, encoding: 'utf8' });
+    expect(rerun.status).toBe(0);
+    expect(await readFile(join(killed, 'summary.csv'), 'utf8')).toBe(await readFile(join(out, 'summary.csv'), 'utf8'));
+    const leftovers = (await readdir(killed, { recursive: true })).filter((f) => String(f).endsWith('.tmp'));
+    expect(leftovers).toEqual([]);
+  });
+});

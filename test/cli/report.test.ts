@@ -1,0 +1,58 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { writeTestBatch } from '../report/writeTestBatch.js';
+
+// Spawns bin/revtrace, which runs dist/: run `npm run build` first.
+const bin = fileURLToPath(new URL('../../bin/revtrace', import.meta.url));
+const revtrace = (...args: string[]) => spawnSync(process.execPath, [bin, ...args], { encoding: 'utf8' });
+
+let dir: string;
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'revtrace-cli-report-'));
+  await writeTestBatch(dir);
+});
+afterAll(async () => {
+  await rm(dir, { recursive: true, force: true });
+});
+
+describe('revtrace report <dir>', () => {
+  it('merges the run folders into summary.csv and batch.json, then writes the report', async () => {
+    const r = revtrace('report', dir, '--title', 'Rotor K <b>day 3</b>');
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    expect(r.stdout).toContain(join(dir, 'report.html'));
+    expect(existsSync(join(dir, 'summary.csv'))).toBe(true);
+    const batch = JSON.parse(await readFile(join(dir, 'batch.json'), 'utf8')) as { counts: { runs: number; failed: number } };
+    expect(batch.counts).toMatchObject({ runs: 9, failed: 1 });
+    const html = await readFile(join(dir, 'report.html'), 'utf8');
+    expect(html).toContain('<h1>Rotor K &lt;b&gt;day 3&lt;/b&gt;</h1>');
+  });
+
+  it('writes to --out and takes an equivalence margin', async () => {
+    const out = join(dir, 'shared', 'day3.html');
+    const r = revtrace('report', dir, '--out', out, '--margin', '0.5');
+    expect(r.status).toBe(0);
+    const html = await readFile(out, 'utf8');
+    expect(html).toContain('Equivalence margin ±0.5 deg/s (given for this report)');
+    expect(html).toContain('href="../runs/f-2.0-a/angle.csv"');
+  });
+
+  it('refuses a folder without runs/ with one sentence and exit code 2', () => {
+    const r = revtrace('report', join(dir, 'no-such-folder'));
+    expect(r.status).toBe(2);
+    expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    expect(r.stderr).toMatch(/^revtrace: .*has no runs\/ folder; give the output folder of a batch/);
+  });
+
+  it('refuses a margin that is not a positive number', () => {
+    const r = revtrace('report', dir, '--margin', 'abc');
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/--margin "abc" is not a positive rate/);
+    expect(r.stderr).not.toMatch(/\n\s+at /);
+  });
+});
