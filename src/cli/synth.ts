@@ -140,7 +140,7 @@ function optionsToSpec(o: SynthCliOptions): SynthSpecInput {
     spec.profile = { kind: 'coastdown', angle0_deg, start_rate_deg_s, coulomb_deg_s2, viscous_per_s, t0_s };
   }
   if (o.cycle !== undefined) {
-    const [rest, terminal_rate_deg_s, tau_s, spin, steady, coulomb_deg_s2, viscous_per_s] = numbers('--cycle', o.cycle, 7, 7, 'rest_s,terminal_deg_s,tau_s,spinup_s,steady_s,coulomb_deg_s2,viscous_per_s like 0.3,360,0.3,1,0.7,120,0.5');
+    const [rest, terminal_rate_deg_s, tau_s, spin, steady, coulomb_deg_s2, viscous_per_s] = numbers('--cycle', o.cycle, 7, 7, 'rest_s,terminal_deg_s,tau_s,spinup_s,steady_s,coulomb_deg_s2,viscous_per_s like 0.2,360,0.2,0.6,0.4,360,0.5');
     spec.profile = {
       kind: 'sequence',
       angle0_deg,

@@ -118,6 +118,37 @@ export function coastDownRate(params: CoastDownParams): (t_s: number) => number 
   };
 }
 
+/** φ1, φ1', φ2, φ2' at x into out[0..3] without allocating (hot loop of the fit). */
+function phiAll(x: number, out: Float64Array): void {
+  if (Math.abs(x) < SERIES_LIMIT) {
+    const z = -x;
+    let v1 = PHI1_COEF[SERIES_TERMS - 1]!;
+    let s1 = 0;
+    let v2 = PHI2_COEF[SERIES_TERMS - 1]!;
+    let s2 = 0;
+    for (let n = SERIES_TERMS - 2; n >= 0; n--) {
+      s1 = s1 * z + v1;
+      v1 = v1 * z + PHI1_COEF[n]!;
+      s2 = s2 * z + v2;
+      v2 = v2 * z + PHI2_COEF[n]!;
+    }
+    out[0] = v1;
+    out[1] = -s1;
+    out[2] = v2;
+    out[3] = -s2;
+    return;
+  }
+  const em = Math.expm1(-x);
+  const e = em + 1;
+  const x2 = x * x;
+  out[0] = -em / x;
+  out[1] = -(1 - (1 + x) * e) / x2;
+  out[2] = (x + em) / x2;
+  out[3] = (2 - x - (x + 2) * e) / (x2 * x);
+}
+
+const PHI_SCRATCH = new Float64Array(4);
+
 /** Internal parameter vector p = [θs, ω0, c, k], time relative to the window start. */
 const coastDownCurve: CurveModel = {
   k: 4,
@@ -130,14 +161,15 @@ const coastDownCurve: CurveModel = {
     // After the stop the angle is frozen at θ(t_stop); since dθ/dt = 0 there, its gradient is the
     // fixed-time gradient at t_stop (envelope theorem).
     const tp = Math.min(t, coastDownStopAfter_s(u0, c, k));
-    const x = k * tp;
-    const [f1, d1] = phi1(x);
-    const [f2, d2] = phi2(x);
+    phiAll(k * tp, PHI_SCRATCH);
+    const f1 = PHI_SCRATCH[0]!;
+    const f2 = PHI_SCRATCH[2]!;
+    const tp2 = tp * tp;
     grad[0] = 1;
     grad[1] = tp * f1;
-    grad[2] = -s * tp * tp * f2;
-    grad[3] = s * (u0 * tp * tp * d1 - c * tp * tp * tp * d2);
-    return p[0]! + w0 * tp * f1 - s * c * tp * tp * f2;
+    grad[2] = -s * tp2 * f2;
+    grad[3] = s * (u0 * tp2 * PHI_SCRATCH[1]! - c * tp2 * tp * PHI_SCRATCH[3]!);
+    return p[0]! + w0 * tp * f1 - s * c * tp2 * f2;
   },
 };
 

@@ -27,8 +27,10 @@ export interface DynamicsCurveOptions {
   replicates?: number;
   /** Seed of the bootstrap. Default 1. */
   seed?: number;
-  /** Longest series that gets the bootstrap-t calibration; longer ones use Student's t. Default 5000. */
+  /** Longest series that gets the bootstrap-t calibration; longer ones are fitted on bin means with Student's t. Default 5000. */
   bootstrapMaxPoints?: number;
+  /** Bins used for series longer than `bootstrapMaxPoints`. Default 2000. */
+  binnedPoints?: number;
   /** Largest AR order tried for the residuals. Default 8. */
   maxArOrder?: number;
   /** Points kept for the start-value search and the first LM pass. Default 1500. */
@@ -136,9 +138,41 @@ export function fitDynamicsCurve(model: CurveModel, t: Float64Array, y: Float64A
       // the model is not finite at this start: skip it
     }
   }
+  if (n > (options.bootstrapMaxPoints ?? 5000)) {
+    // Long series: fit with AR errors on bin means (cheap, and the bins carry all the information a smooth
+    // curve needs), then polish the point estimate by ordinary least squares on every point, which removes
+    // the small bias of comparing bin means with the curve at the bin's mean time.
+    const bins = binSeries(t, y, options.binnedPoints ?? 2000);
+    const coarse = fitWithArErrors(model, bins.t, bins.y, best, options.maxArOrder ?? 8);
+    if (!coarse) throw new RangeError('The model is not finite at the best start.');
+    const polish = levenbergMarquardt(curveProblem(model, t, y), coarse.params, { maxIterations: 3, covariance: false });
+    return { ...coarse, params: polish.params, residuals: polish.residuals, rss: polish.rss };
+  }
   const fit = fitWithArErrors(model, t, y, best, options.maxArOrder ?? 8);
   if (!fit) throw new RangeError('The model is not finite at the best start.');
   return withBootstrap(model, t, fit, options);
+}
+
+/** Means of t and y over consecutive bins of equal point count, at most `maxBins` bins. */
+export function binSeries(t: Float64Array, y: Float64Array, maxBins: number): { t: Float64Array; y: Float64Array } {
+  const n = t.length;
+  const size = Math.ceil(n / maxBins);
+  const count = Math.ceil(n / size);
+  const tb = new Float64Array(count);
+  const yb = new Float64Array(count);
+  for (let b = 0; b < count; b++) {
+    const from = b * size;
+    const to = Math.min(n, from + size);
+    let st = 0;
+    let sy = 0;
+    for (let i = from; i < to; i++) {
+      st += t[i]!;
+      sy += y[i]!;
+    }
+    tb[b] = st / (to - from);
+    yb[b] = sy / (to - from);
+  }
+  return { t: tb, y: yb };
 }
 
 /** From a start: OLS fit, AR order, then feasible GLS; null when the model cannot be evaluated. */

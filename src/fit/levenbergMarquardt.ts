@@ -51,7 +51,7 @@ export interface LevenbergMarquardtResult {
   se: Float64Array;
   /** (JᵀJ)⁻¹ without s², row-major k×k, for callers that build their own covariance. */
   inverseNormal: Float64Array;
-  /** Jacobian ∂f/∂p at the solution, column-major (jac[j·n + i]). */
+  /** Jacobian ∂f/∂p, column-major (jac[j·n + i]): at the solution when the covariance was requested, else at the last accepted step. */
   jacobian: Float64Array;
   iterations: number;
   converged: boolean;
@@ -214,6 +214,7 @@ export function levenbergMarquardt(
   const columnNorm = new Float64Array(k);
   const jacTrial = new Float64Array(n * k);
   let jacobianReady = false;
+  let rejected = 0;
 
   problem.residuals(p, r);
   let rss = sumSquares(r);
@@ -262,6 +263,12 @@ export function levenbergMarquardt(
       qtrSq = 0;
       for (let j = 0; j < k; j++) qtrSq += qtr[j]! * qtr[j]!;
       needJacobian = false;
+      // ‖Qᵀr‖² is the reduction the undamped Gauss–Newton step predicts: if even that is negligible, stop.
+      if (qtrSq <= opt.ftol * rss) {
+        converged = true;
+        reason = 'the Gauss–Newton step predicts a relative reduction below ftol';
+        break;
+      }
     }
 
     const delta = dampedStep(rMat, qtr, diag, lambda, k);
@@ -325,6 +332,7 @@ export function levenbergMarquardt(
       rss = rssTrial;
       lambda *= Math.max(1 / 3, 1 - (2 * rho - 1) ** 3);
       nu = 2;
+      rejected = 0;
       needJacobian = true;
       if (actual <= opt.ftol * rssOld && predicted <= opt.ftol * rssOld) {
         converged = true;
@@ -345,7 +353,8 @@ export function levenbergMarquardt(
       }
       lambda *= nu;
       nu *= 2;
-      if (lambda > 1e20 || stepNorm <= Number.EPSILON * pNorm) {
+      rejected++;
+      if (lambda > 1e20 || stepNorm <= Number.EPSILON * pNorm || rejected > 40) {
         // The step has shrunk to rounding level without reducing the RSS: stationary to working precision.
         converged = predicted <= 1e-10 * rss;
         reason = converged ? 'no further reduction is possible at rounding level' : 'the damping grew without reducing the residuals';
@@ -355,7 +364,7 @@ export function levenbergMarquardt(
   }
 
   // Covariance at the solution.
-  problem.jacobian(p, jac);
+  if (opt.covariance) problem.jacobian(p, jac);
   const dof = n - k;
   let invN: Float64Array = new Float64Array(k * k).fill(NaN);
   if (opt.covariance) {

@@ -56,31 +56,54 @@ export function batchCount(m: number, most = 8): number {
   return Math.max(2, Math.min(most, Math.floor(m / 5)));
 }
 
+/** Slope of the 2-column least squares from its normal-equation sums; the slope alone when the constant column has vanished. */
+function slopeFromSums(s11: number, s12: number, s22: number, s1y: number, s2y: number): number {
+  const det = s11 * s22 - s12 * s12;
+  if (!(det > 1e-12 * s11 * s22)) return s2y / s22;
+  return (s11 * s2y - s12 * s1y) / det;
+}
+
 /**
  * Generalised least squares of y = c + ω·t + u on rows lo…hi−1 for the given noise model (kalmanWhiten).
- * Standard error by batch means of the GLS score: ω̂ − ω = Σ_k g_k·v_k over the whitened rows (g the slope
- * row of (X̃ᵀX̃)⁻¹X̃ᵀ); the sums Z_b of g_k·v̂_k over B contiguous batches give Var(ω̂) ≈ B/(B−1)·Σ Z_b²,
- * referred to Student-t with B − 1 degrees of freedom (fixed-b / cluster inference: Kiefer & Vogelsang 2005;
- * Bester, Conley & Hansen 2011, J. Econometrics 165:137). Whatever slow wander the noise model misses stays
- * in the batch sums and widens the interval.
+ * Standard error by the delete-a-batch jackknife over B contiguous batches of the whitened rows (the block
+ * jackknife for dependent data, Künsch 1989, Ann. Statist. 17:1217): ω̂_(−b) refitted without batch b,
+ * Var(ω̂) ≈ (B−1)/B·Σ_b (ω̂_(−b) − ω̄)², Student-t with B − 1 df (fixed-b inference with few batches).
+ * The jackknife accounts for the high leverage of the end batches in a trend fit, which plain batch means
+ * of the score do not (they under-cover by several points). Whatever slow wander the noise model misses stays
+ * in the batches and widens the interval.
  */
 function glsSlope(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel, mostBatches = 8): SlopeFit {
   const w = kalmanWhiten(t, y, lo, hi, model);
   const m = hi - lo;
   const fit = linearLeastSquares([w.one, w.t], w.y);
-  const v = fit.residuals;
-  const g = fit.inverseGram;
   const b = batchCount(m, mostBatches);
-  let sumZ2 = 0;
+  // per-batch normal-equation sums, centred on the full-fit coefficients' scale for accuracy
+  const sums = Array.from({ length: b }, () => new Float64Array(5));
+  const total = new Float64Array(5);
+  const c0 = fit.coefficients[0]!;
+  const c1 = fit.coefficients[1]!;
   for (let batch = 0; batch < b; batch++) {
     const start = Math.floor((m * batch) / b);
     const end = Math.floor((m * (batch + 1)) / b);
-    let z = 0;
-    for (let k = start; k < end; k++) z += (g[2]! * w.one[k]! + g[3]! * w.t[k]!) * v[k]!;
-    sumZ2 += z * z;
+    const acc = sums[batch]!;
+    for (let k = start; k < end; k++) {
+      const x1 = w.one[k]!;
+      const x2 = w.t[k]!;
+      const r = w.y[k]! - c0 * x1 - c1 * x2; // residual: the jackknife works on the slope's change
+      acc[0]! += x1 * x1;
+      acc[1]! += x1 * x2;
+      acc[2]! += x2 * x2;
+      acc[3]! += x1 * r;
+      acc[4]! += x2 * r;
+    }
+    for (let j = 0; j < 5; j++) total[j]! += acc[j]!;
   }
-  const varSlope = (b / (b - 1)) * sumZ2;
-  return { slope: fit.coefficients[1]!, se: Math.sqrt(varSlope), df: b - 1, intercept: fit.coefficients[0]!, batches: b, modelSe: fit.se[1]! };
+  const leaveOut = sums.map((acc) =>
+    slopeFromSums(total[0]! - acc[0]!, total[1]! - acc[1]!, total[2]! - acc[2]!, total[3]! - acc[3]!, total[4]! - acc[4]!),
+  );
+  const mean = leaveOut.reduce((a, v) => a + v, 0) / b;
+  const varSlope = ((b - 1) / b) * leaveOut.reduce((a, v) => a + (v - mean) ** 2, 0);
+  return { slope: c1, se: Math.sqrt(varSlope), df: b - 1, intercept: c0, batches: b, modelSe: fit.se[1]! };
 }
 
 function estimate(value: number, se: number, df: number, level: number): Estimate {
@@ -100,9 +123,9 @@ function estimate(value: number, se: number, df: number, level: number): Estimat
  * 2. GLS of angle on time for that noise model by a Kalman filter (kalmanWhiten), exact on irregular times.
  *    For white noise this is ordinary least squares (efficient: the Cramér–Rao bound); for a random walk it
  *    is the mean of the increments; in between it weighs both continuously — no switch between regimes.
- * 3. Standard error: batch means of the GLS score over 8 contiguous batches of the whitened rows, Student-t
- *    with 7 df (glsSlope); 8 rather than more because it held coverage best under a wandering rate in the
- *    seeded study (bench/fitCoverage.mjs), at the price of a wider t quantile. The noise model only has to be good enough for efficiency; the interval's
+ * 3. Standard error: delete-a-batch (block) jackknife over B contiguous batches of the whitened rows,
+ *    Student-t with B − 1 df (glsSlope). The noise model only has to be good enough for efficiency; the
+ *    interval's validity rests on the batches, so slow wander the model misses still widens it. The noise model only has to be good enough for efficiency; the interval's
  *    validity rests on the batches, so slow wander the model misses still widens it.
  * Why not the alternatives: the mean of K segment slopes (batch means) has K² times the variance of the
  * full-window slope under white noise; Newey–West on the residuals of the plain level regression fails

@@ -5,23 +5,32 @@ import type { AngleTable, RateTable } from './ReportData.js';
 export class TableFormatError extends Error {}
 
 /**
- * Reads the wanted columns of a CSV text. Files without any quote character (what revtrace writes for its
- * numeric tables) take a fast scan that cuts only the wanted fields out of each line; anything quoted goes
- * through csv-parse. Returns the header and, per wanted column, its fields in row order.
+ * Reads the wanted columns of a CSV text, each either as numbers (empty or unparsable = NaN) or as text.
+ * Files without any quote character (what revtrace writes for its numeric tables) take a fast scan that
+ * converts only the wanted fields of each line; anything quoted goes through csv-parse.
  */
-function readColumns(text: string, wanted: readonly string[], file: string): string[][] {
+function readColumns(text: string, wanted: readonly { name: string; text?: boolean }[], file: string): (Float64Array | string[])[] {
   if (text.includes('"')) {
     const rows = parse(text, { skip_empty_lines: true, relax_column_count: true }) as string[][];
-    const col = columnIndex((rows[0] ?? []).map(cleanHeader), wanted, file);
-    return wanted.map((name) => rows.slice(1).map((r) => r[col[name]!] ?? ''));
+    const col = columnIndex((rows[0] ?? []).map(cleanHeader), wanted.map((w) => w.name), file);
+    return wanted.map((w) => {
+      const fields = rows.slice(1).map((r) => r[col[w.name]!] ?? '');
+      return w.text ? fields : Float64Array.from(fields, toNumber);
+    });
   }
   let lineEnd = text.indexOf('\n');
   if (lineEnd < 0) lineEnd = text.length;
-  const col = columnIndex(text.slice(0, lineEnd).replace(/\r$/, '').split(',').map(cleanHeader), wanted, file);
-  const indices = wanted.map((name) => col[name]!);
-  const maxIndex = Math.max(...indices);
-  const out: string[][] = wanted.map(() => []);
-  const fields: string[] = new Array(maxIndex + 1);
+  const col = columnIndex(text.slice(0, lineEnd).replace(/\r$/, '').split(',').map(cleanHeader), wanted.map((w) => w.name), file);
+  let lines = 0;
+  for (let i = text.indexOf('\n', lineEnd + 1); i >= 0; i = text.indexOf('\n', i + 1)) lines++;
+  lines++;
+  // target[f]: which wanted column field f feeds, or -1
+  const maxIndex = Math.max(...wanted.map((w) => col[w.name]!));
+  const target = new Int32Array(maxIndex + 1).fill(-1);
+  wanted.forEach((w, k) => (target[col[w.name]!] = k));
+  const numeric = wanted.map((w) => (w.text ? null : new Float64Array(lines)));
+  const texts = wanted.map((w) => (w.text ? ([] as string[]) : null));
+  let row = 0;
   let start = lineEnd + 1;
   while (start < text.length) {
     let end = text.indexOf('\n', start);
@@ -33,14 +42,20 @@ function readColumns(text: string, wanted: readonly string[], file: string): str
       for (let f = 0; f <= maxIndex; f++) {
         let comma = from <= stop ? text.indexOf(',', from) : -1;
         if (comma < 0 || comma > stop) comma = stop;
-        fields[f] = from <= stop ? text.slice(from, comma) : '';
+        const k = target[f]!;
+        if (k >= 0) {
+          const field = from < comma ? text.slice(from, comma) : '';
+          const num = numeric[k];
+          if (num) num[row] = toNumber(field);
+          else texts[k]!.push(field);
+        }
         from = comma + 1;
       }
-      for (let w = 0; w < indices.length; w++) out[w]!.push(fields[indices[w]!]!);
+      row++;
     }
     start = end + 1;
   }
-  return out;
+  return wanted.map((_, k) => numeric[k]?.slice(0, row) ?? texts[k]!);
 }
 
 function cleanHeader(h: string): string {
@@ -49,18 +64,12 @@ function cleanHeader(h: string): string {
 
 /** Parses angle.csv (`frame,t_s,x_px,y_px,angle_deg,quality,flag`; empty or NaN angle = lost frame). */
 export function parseAngleCsv(text: string): AngleTable {
-  const [tCol, aCol, qCol, fCol] = readColumns(text, ['t_s', 'angle_deg', 'quality', 'flag'], 'angle.csv') as [string[], string[], string[], string[]];
-  const n = tCol.length;
-  const t_s = new Float64Array(n);
-  const angle_deg = new Float64Array(n);
-  const quality = new Float64Array(n);
+  const [t_s, angle_deg, quality, flags] = readColumns(text, [{ name: 't_s' }, { name: 'angle_deg' }, { name: 'quality' }, { name: 'flag', text: true }], 'angle.csv') as [Float64Array, Float64Array, Float64Array, string[]];
+  const n = t_s.length;
   const flagged = new Uint8Array(n);
   const flag_counts: Record<string, number> = {};
   for (let i = 0; i < n; i++) {
-    t_s[i] = toNumber(tCol[i]);
-    angle_deg[i] = toNumber(aCol[i]);
-    quality[i] = toNumber(qCol[i]);
-    const flag = fCol[i]!.trim();
+    const flag = flags[i]!.trim();
     if (flag !== '') {
       flagged[i] = 1;
       flag_counts[flag] = (flag_counts[flag] ?? 0) + 1;
@@ -71,8 +80,7 @@ export function parseAngleCsv(text: string): AngleTable {
 
 /** Parses rate.csv (`t_s,rate_deg_s,lo_deg_s,hi_deg_s`). */
 export function parseRateCsv(text: string): RateTable {
-  const cols = readColumns(text, ['t_s', 'rate_deg_s', 'lo_deg_s', 'hi_deg_s'], 'rate.csv');
-  const [t_s, rate_deg_s, lo_deg_s, hi_deg_s] = cols.map((c) => Float64Array.from(c, toNumber)) as [Float64Array, Float64Array, Float64Array, Float64Array];
+  const [t_s, rate_deg_s, lo_deg_s, hi_deg_s] = readColumns(text, [{ name: 't_s' }, { name: 'rate_deg_s' }, { name: 'lo_deg_s' }, { name: 'hi_deg_s' }], 'rate.csv') as [Float64Array, Float64Array, Float64Array, Float64Array];
   return { t_s, rate_deg_s, lo_deg_s, hi_deg_s };
 }
 

@@ -1,7 +1,7 @@
 import { relative, sep } from 'node:path';
 import type { FitReport } from '../fit/FitReport.js';
 import type { ChartSpec } from './ChartSpec.js';
-import { html, trusted, type SafeHtml } from './escapeHtml.js';
+import { escapeHtml, html, trusted, type SafeHtml } from './escapeHtml.js';
 import { formatInterval, formatP, formatRate, formatSig } from './formatQuantity.js';
 import { previewDataUri } from './previewDataUri.js';
 import { qualityNotes } from './qualityNotes.js';
@@ -17,7 +17,7 @@ export function relativeHref(fromDir: string, target: string): string {
 
 /** A figure holding one rendered chart. */
 export async function chartFigure(chart: ChartSpec, headingLevel: 'h3' | 'h4'): Promise<SafeHtml> {
-  const svg = await renderChart(chart.spec);
+  const svg = (await renderChart(chart.spec)).replace('<svg ', `<svg role="img" aria-label="${escapeHtml(chart.title)}" `);
   const heading = headingLevel === 'h3' ? html`<h3>${chart.title}</h3>` : html`<h4>${chart.title}</h4>`;
   return html`<figure class="chart" data-chart="${chart.id}">${heading}${trusted(svg)}<figcaption>${chart.caption}</figcaption></figure>`;
 }
@@ -94,7 +94,7 @@ ${r.notes ? html`<p>Notes: ${r.notes}</p>` : ''}
 ${r.status === 'failed' ? html`<p><strong>This run failed:</strong> ${r.error ?? 'no reason recorded'}</p>` : ''}
 ${run.fit ? resultTable(run.fit) : ''}
 ${links.length > 0 ? html`<p class="files">Files: ${links}</p>` : ''}
-${preview ? html`<figure class="preview"><h4>Preview frame</h4><img src="${preview.uri}" width="${preview.width}" height="${preview.height}" alt="Preview frame of run ${r.run} with the tracked marker"><figcaption>A frame of the video as tracked${run.preview_png && preview.width ? '' : ''}.</figcaption></figure>` : ''}
+${preview ? html`<figure class="preview"><h4>Preview frame</h4><img src="${preview.uri}" width="${preview.width}" height="${preview.height}" alt="Preview frame of run ${r.run} with the tracked marker"><figcaption>A frame of the video as tracked${preview.width < (run.track?.input.width ?? 0) ? `, shrunk to ${preview.width} × ${preview.height} px` : ''}.</figcaption></figure>` : ''}
 ${figures.length > 0 ? html`<div class="charts">${figures}</div>` : ''}
 <h4>Data quality</h4>
 ${notes.length === 0 ? html`<p class="ok-note">No data-quality flags.</p>` : html`<dl class="flags">${notes.map((n) => html`<dt>${n.label}</dt><dd>${n.words}</dd>`)}</dl>`}

@@ -195,13 +195,16 @@ function resolveProfile(input: unknown): RotationProfile {
   }
 }
 
-/** Default sequence: 0.3 s rest, 1 s spin-up towards 360 deg/s (τ 0.3 s), 0.7 s steady, then coast-down. */
+/**
+ * Default sequence, sized for the default 2 s clip: 0.2 s rest, 0.6 s spin-up towards 360 deg/s (τ 0.2 s),
+ * 0.4 s steady, then a coast-down (c = 360 deg/s², k = 0.5 /s) that stops just before 2 s.
+ */
 function defaultPhases(): SequencePhase[] {
   return [
-    { kind: 'rest', duration_s: 0.3 },
-    { kind: 'spinup', duration_s: 1, terminal_rate_deg_s: 360, tau_s: 0.3 },
-    { kind: 'steady', duration_s: 0.7 },
-    { kind: 'coastdown', duration_s: 2, coulomb_deg_s2: 120, viscous_per_s: 0.5 },
+    { kind: 'rest', duration_s: 0.2 },
+    { kind: 'spinup', duration_s: 0.6, terminal_rate_deg_s: 360, tau_s: 0.2 },
+    { kind: 'steady', duration_s: 0.4 },
+    { kind: 'coastdown', duration_s: 1, coulomb_deg_s2: 360, viscous_per_s: 0.5 },
   ];
 }
 

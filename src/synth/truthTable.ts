@@ -14,14 +14,14 @@ export interface SynthTruth {
 
 /**
  * Column names of truth.csv: frame, t_s, angle_deg, then x_px, y_px for one marker or x1_px, y1_px, x2_px, …
- * for several, then (with particles) `occluded` (1 when any marker has a particle over it) and, for several
+ * for several, then (with particles and at least one marker) `occluded` (1 when any marker has a particle over it) and, for several
  * markers, occluded1, occluded2, …; rate_deg_s last.
  */
 export function truthColumns(markerCount: number, withParticles: boolean): string[] {
   const cols = ['frame', 't_s', 'angle_deg'];
   if (markerCount === 1) cols.push('x_px', 'y_px');
   else for (let m = 1; m <= markerCount; m++) cols.push(`x${m}_px`, `y${m}_px`);
-  if (withParticles) {
+  if (withParticles && markerCount > 0) {
     cols.push('occluded');
     if (markerCount > 1) for (let m = 1; m <= markerCount; m++) cols.push(`occluded${m}`);
   }
@@ -41,7 +41,7 @@ export function formatTruthCsv(truth: SynthTruth, withParticles: boolean): strin
   for (let f = 0; f < n; f++) {
     const row = [String(f), fixed(truth.t_s[f], 9), fixed(truth.angle_deg[f], 9)];
     for (const m of truth.markers) row.push(fixed(m.x_px[f], 6), fixed(m.y_px[f], 6));
-    if (withParticles) {
+    if (withParticles && truth.markers.length > 0) {
       row.push(truth.markers.some((m) => m.occluded[f] === 1) ? '1' : '0');
       if (truth.markers.length > 1) for (const m of truth.markers) row.push(String(m.occluded[f]));
     }

@@ -1,10 +1,11 @@
 /**
  * Robust weights for a polar image compared with a reference turned by shift_bins: residuals
  * e = cur − mean_r(cur) − g·(ref(θ − shift) − mean_r(ref)) per sample (linear interpolation along the angle,
- * one gain g over the image), scaled by 1.4826 × their median absolute value, and weighted with Tukey's
+ * one gain g over the image), scaled by 1.4826 × their median absolute value (but at least 3/4 of the
+ * texture's own standard deviation), and weighted with Tukey's
  * biweight, w = (1 − (e / (c·σ))²)² inside c·σ, 0 outside (c = 4.685; Huber & Ronchetti, Robust
  * Statistics, 2009 — cited from memory). Samples covered by something that does not turn with the hub
- * (a bubble, glare) get weight 0. Both images are rows × bins, row-major.
+ * (a bubble, glare) get weight 0, and so do their 3×3 neighbours. Both images are rows × bins, row-major.
  */
 export function outlierWeights(cur: Float64Array, ref: Float64Array, rows: number, bins: number, shift_bins: number, tuning = 4.685): Float64Array {
   const n = rows * bins;
@@ -41,14 +42,32 @@ export function outlierWeights(cur: Float64Array, ref: Float64Array, rows: numbe
   for (let i = 0; i < n; i++) residual[i] = Math.abs(centred[i] - gain * shifted[i]);
   const sorted = Float64Array.from(residual).sort();
   const median = n % 2 ? sorted[(n - 1) / 2] : 0.5 * (sorted[n / 2 - 1] + sorted[n / 2]);
-  const limit = tuning * 1.4826 * median;
+  // Never call a sample an outlier for less than 3/4 of the texture's own spread: a slightly wrong shift leaves
+  // residuals on every edge of the texture, and masking those would pull the shift further off.
+  let spread = 0;
+  for (let i = 0; i < n; i++) spread += centred[i] * centred[i];
+  spread = Math.sqrt(spread / n);
+  const limit = Math.max(tuning * 1.4826 * median, 0.75 * spread);
   const weights = new Float64Array(n);
   if (!(limit > 0)) return weights.fill(1);
   for (let i = 0; i < n; i++) {
     const z = residual[i] / limit;
     weights[i] = z < 1 ? (1 - z * z) ** 2 : 0;
   }
-  return weights;
+  // Spread each low weight to its 3×3 neighbours (angle wraps round), so the soft rim of a bubble goes too.
+  const eroded = new Float64Array(n);
+  for (let r = 0; r < rows; r++) {
+    for (let j = 0; j < bins; j++) {
+      let w = weights[r * bins + j];
+      for (let dr = -1; dr <= 1; dr++) {
+        const rr = r + dr;
+        if (rr < 0 || rr >= rows) continue;
+        for (let dj = -1; dj <= 1; dj++) w = Math.min(w, weights[rr * bins + ((j + dj + bins) % bins)]);
+      }
+      eroded[r * bins + j] = w;
+    }
+  }
+  return eroded;
 }
 
 /** Each row minus its weighted mean, times the weights: what is left of an image once its outliers are masked. */

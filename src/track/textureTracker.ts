@@ -2,6 +2,7 @@ import { InputError } from '../errors.js';
 import { CircularShiftEstimator, type RowSpectra } from './circularShift.js';
 import { createPolarGrid, polarUnwrap, type GrayCrop, type PolarGrid } from './polarUnwrap.js';
 import { refineTextureCentre } from './textureCentre.js';
+import { applyRowWeights, outlierWeights, shiftRowWeights } from './textureOutlierWeights.js';
 
 export type { GrayCrop } from './polarUnwrap.js';
 
@@ -18,6 +19,8 @@ export interface TextureTrackerOptions {
   reference_refresh_deg?: number;
   /** Correlation under which the tracker looks for a better reference or makes the current frame one. Default 0.8. */
   refresh_below?: number;
+  /** Correlation under which outliers (bubbles, glare) are masked and the shift measured again. Default 0.995. */
+  robust_below?: number;
   /** Successive frames below refresh_below before the current frame becomes a new reference (a passing bubble should not). Default 5. */
   refresh_after_frames?: number;
   /** Correlation under which a frame is reported lost (NaN, quality 0). Default 0.7. */
@@ -57,8 +60,15 @@ export interface TextureTracker {
 }
 
 interface Reference {
+  polar: Float64Array;
   spectra: RowSpectra;
   angle_deg: number;
+}
+
+/** A frame's unwrapped annulus and the spectra of its rows. */
+interface Unwrapped {
+  polar: Float64Array;
+  spectra: RowSpectra;
 }
 
 /** Smallest power of two ≥ n. */
@@ -112,6 +122,8 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
   const refreshDeg = options.reference_refresh_deg ?? Infinity;
   const refreshBelow = options.refresh_below ?? 0.8;
   const minQuality = options.min_quality ?? 0.7;
+  const robustBelow = options.robust_below ?? 0.995;
+  const rows = grid.radii_px.length;
   const refreshAfter = Math.max(1, Math.round(options.refresh_after_frames ?? 5));
   const maxStepDeg = Math.min(180, options.max_step_deg ?? 90);
   const maxReferences = Math.max(2, options.max_references ?? 8);
@@ -133,22 +145,34 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
   let framesSinceGood = 0;
   let framesBelow = 0;
 
-  const measure = (ref: Reference, spectra: RowSpectra, predicted_deg: number): { angle_deg: number; quality: number } => {
+  const measure = (ref: Reference, cur: Unwrapped, predicted_deg: number): { angle_deg: number; quality: number } => {
     const predictedShift = wrapDeg(predicted_deg - ref.angle_deg);
-    const est = estimator.estimate(ref.spectra, spectra, {
+    const est = estimator.estimate(ref.spectra, cur.spectra, {
       predicted_bins: predictedShift / degPerBin,
       window_bins: maxStepDeg / degPerBin,
     });
     if (!Number.isFinite(est.shift_bins)) return { angle_deg: Number.NaN, quality: 0 };
-    const shiftDeg = est.shift_bins * degPerBin;
+    let shift = est.shift_bins;
+    if (est.correlation < robustBelow && est.correlation >= minQuality) {
+      // Mask what does not turn with the hub (Tukey weights on the residual) and measure again, twice.
+      for (let pass = 0; pass < 5; pass++) {
+        const w = outlierWeights(cur.polar, ref.polar, rows, bins, shift);
+        const curMasked = estimator.spectra(applyRowWeights(cur.polar, w, rows, bins), rows);
+        const refMasked = estimator.spectra(applyRowWeights(ref.polar, shiftRowWeights(w, rows, bins, shift), rows, bins), rows);
+        const again = estimator.estimate(refMasked, curMasked, { predicted_bins: shift, window_bins: 2 });
+        if (!Number.isFinite(again.shift_bins) || again.correlation < est.correlation) break;
+        shift = again.shift_bins;
+      }
+    }
+    const shiftDeg = shift * degPerBin;
     // Choose the turn count that puts the reading nearest the prediction.
     const turns = Math.round((predicted_deg - ref.angle_deg - shiftDeg) / 360);
     return { angle_deg: ref.angle_deg + shiftDeg + 360 * turns, quality: Math.max(0, est.correlation) };
   };
 
-  const addReference = (spectra: RowSpectra, angle_deg: number): void => {
+  const addReference = (frame: Unwrapped, angle_deg: number): void => {
     if (references.length >= maxReferences) references.splice(1, 1); // keep the first frame, drop the oldest other
-    references.push({ spectra, angle_deg });
+    references.push({ polar: frame.polar, spectra: frame.spectra, angle_deg });
     active = references.length - 1;
     made++;
   };
@@ -167,13 +191,15 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
       const dx = offset?.dx_px ?? 0;
       const dy = offset?.dy_px ?? 0;
       if (!Number.isFinite(dx) || !Number.isFinite(dy)) return { angle_deg: Number.NaN, quality: 0 };
-      const unwrap = (f: GrayCrop, ox: number, oy: number): RowSpectra =>
-        estimator.spectra(polarUnwrap(f, grid, { x_px: base.x_px + ox, y_px: base.y_px + oy }), grid.radii_px.length);
-      let spectra = unwrap(frame, dx, dy);
+      const unwrap = (f: GrayCrop, ox: number, oy: number): Unwrapped => {
+        const polar = polarUnwrap(f, grid, { x_px: base.x_px + ox, y_px: base.y_px + oy });
+        return { polar, spectra: estimator.spectra(polar, rows) };
+      };
+      let current = unwrap(frame, dx, dy);
       if (references.length === 0) {
-        if (!(spectra.energy > 0)) return { angle_deg: Number.NaN, quality: 0 };
+        if (!(current.spectra.energy > 0)) return { angle_deg: Number.NaN, quality: 0 };
         if (refineCentre) first = { frame: { ...frame, data: frame.data.slice() }, dx_px: dx, dy_px: dy };
-        addReference(spectra, 0);
+        addReference(current, 0);
         lastAngle = 0;
         lastStep = 0;
         framesSinceGood = 0;
@@ -181,13 +207,13 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
       }
       framesSinceGood++;
       const predicted = lastAngle + lastStep * framesSinceGood;
-      let best = measure(references[active], spectra, predicted);
+      let best = measure(references[active], current, predicted);
       let bestIndex = active;
       if (best.quality < refreshBelow) {
         // Try every kept reference, the first frame first.
         for (let i = 0; i < references.length; i++) {
           if (i === active) continue;
-          const m = measure(references[i], spectra, predicted);
+          const m = measure(references[i], current, predicted);
           if (m.quality > best.quality) {
             best = m;
             bestIndex = i;
@@ -195,7 +221,7 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
         }
       } else if (active !== 0 && !Number.isFinite(refreshDeg)) {
         // Go back to the first frame as soon as it matches well again.
-        const root = measure(references[0], spectra, predicted);
+        const root = measure(references[0], current, predicted);
         if (root.quality >= refreshBelow) {
           best = root;
           bestIndex = 0;
@@ -218,8 +244,8 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
           base.y_px = found.y_px - first.dy_px;
           references.length = 0;
           addReference(unwrap(first.frame, first.dx_px, first.dy_px), 0);
-          spectra = unwrap(frame, dx, dy);
-          const again = measure(references[0], spectra, best.angle_deg);
+          current = unwrap(frame, dx, dy);
+          const again = measure(references[0], current, best.angle_deg);
           if (again.quality >= minQuality && Number.isFinite(again.angle_deg)) best = again;
           active = 0;
           refinements++;
@@ -232,7 +258,7 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
       }
       framesBelow = best.quality < refreshBelow ? framesBelow + 1 : 0;
       if (framesBelow >= refreshAfter || Math.abs(best.angle_deg - references[active].angle_deg) > refreshDeg) {
-        addReference(spectra, best.angle_deg);
+        addReference(current, best.angle_deg);
         framesBelow = 0;
       }
       lastStep = (best.angle_deg - lastAngle) / framesSinceGood;

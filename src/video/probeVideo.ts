@@ -1,4 +1,4 @@
-import { stat } from 'node:fs/promises';
+import { open, stat } from 'node:fs/promises';
 import { InputError } from '../errors.js';
 import { FfmpegError } from './FfmpegError.js';
 import { frameTiming } from './frameTiming.js';
@@ -79,13 +79,25 @@ async function ffprobe(tool: string, path: string, args: string[]): Promise<stri
     return (await runToolToEnd(tool, ['-v', 'error', ...args, '-i', path], { tool: 'ffprobe', file: path })).toString('utf8');
   } catch (err) {
     if (err instanceof FfmpegError && err.toolExitCode !== null && err.toolExitCode !== 0) {
-      if (/moov atom not found/i.test(err.stderrTail)) {
+      if (/moov atom not found/i.test(err.stderrTail) && await startsLikeMp4(path)) {
         throw new InputError(`${path} has no MP4 index (moov box), so it was probably cut short while being written or copied; copy or export the video again.`, { cause: err });
       }
       const why = lastStderrLine(err.stderrTail).replace(/^.*?:\s*(?=[A-Z])/, '');
       throw new InputError(`${path} is not a video ffprobe can read (${why || 'no reason given'}); check that it is a complete video file.`, { cause: err });
     }
     throw err;
+  }
+}
+
+/** True when the file begins with an ISO base media box (ftyp, mdat, free, skip, wide or moov), as MP4/MOV files do. */
+async function startsLikeMp4(path: string): Promise<boolean> {
+  const handle = await open(path, 'r');
+  try {
+    const head = Buffer.alloc(8);
+    const { bytesRead } = await handle.read(head, 0, 8, 0);
+    return bytesRead === 8 && ['ftyp', 'mdat', 'free', 'skip', 'wide', 'moov'].includes(head.toString('latin1', 4, 8));
+  } finally {
+    await handle.close();
   }
 }
 

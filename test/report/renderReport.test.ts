@@ -94,6 +94,21 @@ describe('renderReport', () => {
   });
 });
 
+describe('renderReport on a folder with no finished runs', () => {
+  it('still renders, saying there is nothing to compare', async () => {
+    const d = await mkdtemp(join(tmpdir(), 'revtrace-report-empty-'));
+    try {
+      await writeTestBatch(d, [{ run: 'only', direction: 'reverse', setting: 1, rate_deg_s: 0, failed: 'No frames could be decoded; check the video plays.' }]);
+      const h = await renderReport(await loadReportData(d));
+      expect(h).toContain('No run has a rate to compare yet.');
+      expect(h).toContain('No frames could be decoded; check the video plays.');
+      expect(h.match(/<figure class="chart"/g)).toBeNull();
+    } finally {
+      await rm(d, { recursive: true, force: true });
+    }
+  });
+});
+
 describe('writeReport', () => {
   it('writes report.html in the batch folder, or a given file with links relative to it', async () => {
     const p = await writeReport(dir);

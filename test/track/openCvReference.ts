@@ -1,21 +1,21 @@
 // Loads @techstark/opencv-js (a general-purpose reference library from npm) for tests that compare against it.
-type Cv = {
+export interface Cv {
   Mat: unknown;
   CV_32FC2: number;
   matFromArray(rows: number, cols: number, type: number, data: number[]): { delete(): void };
   fitEllipse(points: unknown): { center: { x: number; y: number }; size: { width: number; height: number }; angle: number };
   onRuntimeInitialized?: () => void;
-};
+}
 
-let loaded: Promise<Cv> | undefined;
+let loaded: Promise<{ cv: Cv }> | undefined;
 
-/** The OpenCV module, initialised once per test file. */
-export function openCvReference(): Promise<Cv> {
+/** The OpenCV module, initialised once per test file (wrapped: the module object is itself a thenable). */
+export async function openCvReference(): Promise<Cv> {
   loaded ??= (async () => {
-    const mod = (await import('@techstark/opencv-js')) as unknown as { default: Cv | Promise<Cv> };
-    const cv = await mod.default;
+    const mod = (await import('@techstark/opencv-js')) as unknown as { default: Cv };
+    const cv = mod.default;
     if (!cv.Mat) await new Promise<void>((resolve) => (cv.onRuntimeInitialized = resolve));
-    return cv;
+    return { cv };
   })();
-  return loaded;
+  return (await loaded).cv;
 }

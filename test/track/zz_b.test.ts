@@ -3,8 +3,8 @@ import { createTextureTracker } from '../../src/track/textureTracker.js';
 import { drawTextureDisc, makeTextureDiscScene } from './textureDisc.js';
 const scene = makeTextureDiscScene(7);
 it('x', () => {
-  for (const rad of [4, 7, 10, 14]) for (const level of [250, 10]) {
-    const tracker = createTextureTracker({ centre: { x_px: scene.cx, y_px: scene.cy }, r_inner_px: 12, r_outer_px: 62 });
+  for (const rad of [14, 18, 22]) for (const level of [250, 10]) {
+    const tracker = createTextureTracker({ centre: { x_px: scene.cx, y_px: scene.cy }, r_inner_px: 12, r_outer_px: 62, min_quality: 0.4 });
     tracker.update({ data: drawTextureDisc(scene, 0), width: 160, height: 160, origin_x_px: 0, origin_y_px: 0 });
     const out: string[] = [];
     for (let i = 1; i < 8; i++) {

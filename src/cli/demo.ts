@@ -1,0 +1,40 @@
+import type { Command } from 'commander';
+import { InputError } from '../errors.js';
+import { createBatchDisplay } from '../batch/batchDisplay.js';
+import { runDemo } from '../demo/runDemo.js';
+import { demoSummaryTable } from '../demo/demoSummaryTable.js';
+import { globalOptions } from './globalOptions.js';
+
+/** `revtrace demo`: renders an invented day of footage, runs the batch and the report, prints a summary. */
+export function registerDemo(program: Command): void {
+  program
+    .command('demo')
+    .description('show the whole job on a synthetic day of runs (rendered once, then reused)')
+    .option('--out <dir>', 'folder for the clips, manifest, results and report', 'reports/demo')
+    .option('--quick', 'a reduced day: fewer, shorter, smaller clips')
+    .option('--jobs <n>', 'runs processed at once (default: one per core)')
+    .action(async (o: { out: string; quick?: boolean; jobs?: string }, command: Command) => {
+      const g = globalOptions(command);
+      let jobs: number | undefined;
+      if (o.jobs !== undefined) {
+        jobs = /^\d+$/.test(o.jobs.trim()) ? Number(o.jobs) : NaN;
+        if (!Number.isInteger(jobs) || jobs < 1) throw new InputError(`--jobs "${o.jobs}" is not a number of parallel runs; give a whole number of 1 or more`);
+      }
+      const started = Date.now();
+      const display = createBatchDisplay(process.stderr.isTTY ? 'bars' : 'lines', process.stderr);
+      let outcome;
+      try {
+        outcome = await runDemo({ out: o.out, quick: o.quick, jobs, tools: { ffmpeg: g.ffmpeg, ffprobe: g.ffprobe }, onLog: (line) => display.note(line, {}), onEvent: (e) => display.onEvent(e) });
+      } finally {
+        display.stop();
+      }
+      const elapsed_s = (Date.now() - started) / 1000;
+      const failed = outcome.batch.failed.map((f) => f.run);
+      process.stdout.write(`\n${demoSummaryTable(outcome.runs, outcome.batch.records)}\n\n`);
+      process.stdout.write(`clips: ${outcome.rendered} rendered, ${outcome.reused} reused; runs: ${outcome.batch.processed} processed, ${outcome.batch.cached} unchanged; ${elapsed_s.toFixed(1)} s\n`);
+      process.stdout.write(`manifest: ${outcome.manifest_path}\ntruth:    ${outcome.truth_path}\nreport:   ${outcome.report_path}\n`);
+      const unexpected = failed.filter((run) => !outcome.runs.find((r) => r.run === run)?.spoiled);
+      if (unexpected.length > 0) process.stdout.write(`unexpected failures: ${unexpected.join(', ')}\n`);
+      process.exitCode = unexpected.length > 0 ? 1 : 0;
+    });
+}
