@@ -47,7 +47,7 @@ export interface SteadyNoise {
   ar_sd_deg: number;
   ar_time_s: number;
   walk_deg_per_sqrt_s: number;
-  /** Batches of the batch-means standard error (its Student-t df is batches − 1). */
+  /** Batches of the jackknife standard error (its Student-t df is batches − 1). */
   batches: number;
 }
 

@@ -3,7 +3,8 @@ import type { ModelName } from './FitReport.js';
 /**
  * What a model-choice rule needs from one fitted model: its name, the number of points n,
  * the number of fitted parameters k and the residual sum of squares (deg²).
- * `n_eff` (optional) is the effective number of independent points when residuals are autocorrelated.
+ * `n_eff` (optional) is the effective number of independent points when residuals are autocorrelated;
+ * `excluded` (optional) says why the model should not be chosen automatically.
  */
 export interface ModelCandidate {
   model: ModelName;
@@ -11,6 +12,8 @@ export interface ModelCandidate {
   k: number;
   rss: number;
   n_eff?: number;
+  /** Set when the fit is not physically meaningful (e.g. negative friction): scored, but not chosen automatically. */
+  excluded?: string;
 }
 
 /** The outcome of a model choice: the chosen model, each candidate's score (lower is better), whether the choice is ambiguous, and the rule in words. */

@@ -12,15 +12,6 @@
 import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
 import { uniformInt } from 'pure-rand/distribution/uniformInt';
 
-export interface BlockBootstrapOptions {
-  /** Number of bootstrap replicates. Default 199. */
-  replicates?: number;
-  /** Block length in samples; default chosen from the residuals by `chooseBlockLength`. */
-  blockLength?: number;
-  /** Seed of the random generator. Default 1. */
-  seed?: number;
-}
-
 /** Lag-1 autocorrelation of a series about its mean (dimensionless; 0 for fewer than 3 points). */
 export function lag1Autocorrelation(x: ArrayLike<number>): number {
   const n = x.length;
@@ -36,15 +27,6 @@ export function lag1Autocorrelation(x: ArrayLike<number>): number {
     if (i + 1 < n) c1 += d * (x[i + 1]! - mean);
   }
   return c0 > 0 ? c1 / c0 : 0;
-}
-
-/**
- * Effective number of independent points of an AR(1) series with lag-1 autocorrelation ρ: n(1 − ρ)/(1 + ρ)
- * (the variance inflation of a mean, e.g. Bayley & Hammersley 1946; negative ρ is treated as 0), at least 2.
- */
-export function effectiveSampleSize(n: number, rho: number): number {
-  const r = Math.min(Math.max(rho, 0), 0.999);
-  return Math.max(2, Math.min(n, (n * (1 - r)) / (1 + r)));
 }
 
 /** Block length (samples) for the circular block bootstrap of `residuals`, by the Politis–White AR(1) plug-in rule; between 1 and n/4. */
@@ -81,43 +63,6 @@ export function circularBlockSampler(residuals: Float64Array, blockLength: numbe
       }
     },
   };
-}
-
-/**
- * Runs `replicates` circular block bootstrap resamples of `residuals` through `statistic` (e.g. a refit
- * of the model to fitted + resampled residuals) and returns the statistic's draws, row r = replicate r
- * (rows for which the statistic returned null, e.g. a refit that failed, are dropped).
- */
-export function blockBootstrap(
-  residuals: Float64Array,
-  options: BlockBootstrapOptions,
-  statistic: (resampled: Float64Array) => Float64Array | null,
-): { draws: Float64Array[]; blockLength: number; failed: number } {
-  const replicates = options.replicates ?? 199;
-  const blockLength = options.blockLength ?? chooseBlockLength(residuals);
-  const sampler = circularBlockSampler(residuals, blockLength, options.seed ?? 1);
-  const buffer = new Float64Array(residuals.length);
-  const draws: Float64Array[] = [];
-  let failed = 0;
-  for (let r = 0; r < replicates; r++) {
-    sampler.resample(buffer);
-    const value = statistic(buffer);
-    if (value === null || value.some((v) => !Number.isFinite(v))) failed++;
-    else draws.push(value);
-  }
-  return { draws, blockLength: sampler.blockLength, failed };
-}
-
-/** Sample standard deviation of component j of the draws. */
-export function drawStandardDeviation(draws: Float64Array[], j: number): number {
-  const m = draws.length;
-  if (m < 2) return NaN;
-  let mean = 0;
-  for (const d of draws) mean += d[j]!;
-  mean /= m;
-  let ss = 0;
-  for (const d of draws) ss += (d[j]! - mean) ** 2;
-  return Math.sqrt(ss / (m - 1));
 }
 
 /** Quantile q (0…1) of a sample by linear interpolation between order statistics (Hyndman & Fan 1996, type 7). */

@@ -17,9 +17,10 @@ import type { SpinDownResult } from './FitReport.js';
 import type { ModelFit } from './ModelFit.js';
 import { type CurveModel, type DynamicsCurveOptions, fitDynamicsCurve, thinSeries } from './fitDynamicsCurve.js';
 import { estimateFromCurve } from './curveEstimate.js';
-import { effectiveSampleSize, lag1Autocorrelation } from './blockBootstrap.js';
-import { checkSeries } from './spinUp.js';
+import { batchMeansEffectiveSize } from './batchMeansEffectiveSize.js';
+import { checkDynamicsSeries } from './checkDynamicsSeries.js';
 import { InputError } from '../errors.js';
+import { DynamicsFitError } from './DynamicsFitError.js';
 
 /** Coast-down parameters: window start ts (s), angle there θs (deg), rate there ω0 (deg/s, signed), Coulomb c (deg/s²), viscous k (1/s). */
 export interface CoastDownParams {
@@ -211,14 +212,13 @@ function coastDownStarts(t: Float64Array, y: Float64Array, count: number): Float
   return candidates.slice(0, count).map((c) => c.p);
 }
 
-/** Solves a symmetric 3×3 system by Cramer's rule; null when singular. */
+/** Solves a symmetric positive semi-definite 3×3 system by Cramer's rule; null when (nearly) singular. */
 function solve3(a: Float64Array, b: Float64Array): Float64Array | null {
   const det = (m: ArrayLike<number>) =>
     m[0]! * (m[4]! * m[8]! - m[5]! * m[7]!) - m[1]! * (m[3]! * m[8]! - m[5]! * m[6]!) + m[2]! * (m[3]! * m[7]! - m[4]! * m[6]!);
   const d = det(a);
-  let scale = 0;
-  for (const v of a) scale = Math.max(scale, Math.abs(v));
-  if (!(Math.abs(d) > 1e-14 * scale ** 3)) return null;
+  // Hadamard's bound for a positive semi-definite matrix: det ≤ a00·a11·a22; near 0 relative to it is singular.
+  if (!(Math.abs(d) > 1e-12 * Math.abs(a[0]! * a[4]! * a[8]!))) return null;
   const out = new Float64Array(3);
   for (let col = 0; col < 3; col++) {
     const m = Float64Array.from(a);
@@ -234,7 +234,7 @@ function solve3(a: Float64Array, b: Float64Array): Float64Array | null {
  * @param angle_deg unwrapped angle, deg, counterclockwise positive as displayed
  */
 export function fitCoastDown(t_s: Float64Array, angle_deg: Float64Array, options: CoastDownOptions = {}): ModelFit<SpinDownResult> {
-  checkSeries(t_s, angle_deg, 'coast-down', 8);
+  checkDynamicsSeries(t_s, angle_deg, 'coast-down', 8);
   const level = options.level ?? 0.95;
   const n = t_s.length;
   const tRef = t_s[0]!;
@@ -255,14 +255,24 @@ export function fitCoastDown(t_s: Float64Array, angle_deg: Float64Array, options
     viscous_per_s: estimateFromCurve(out, 3, level),
     stop_s: stopAfter <= t[n - 1]! ? tRef + stopAfter : null,
   };
+  if (![result.initial_rate_deg_s, result.coulomb_deg_s2, result.viscous_per_s].every((e) => Number.isFinite(e.se))) {
+    throw new DynamicsFitError('The coast-down parameters cannot be told apart in this window (Coulomb and viscous friction are confounded); use a window that starts when the drive is cut and lasts until the rotor slows clearly.');
+  }
   const warnings: string[] = [];
   if (!out.converged) warnings.push(`The coast-down fit did not converge (${out.reason}); treat its estimates with caution.`);
+  let excluded: string | undefined;
   if (params.coulomb_deg_s2 < 0 || params.viscous_per_s < 0) {
     warnings.push('The fitted friction is negative (the rotor seems to gain speed), so the coast-down model does not describe this window.');
   }
+  if (params.coulomb_deg_s2 + params.viscous_per_s * Math.abs(params.initial_rate_deg_s) < 0) excluded = 'the fitted rotor gains speed, which a coast-down cannot do';
+  else if (result.coulomb_deg_s2.ci[1] < 0 || result.viscous_per_s.ci[1] < 0) excluded = 'a friction coefficient is clearly negative, which is not physical';
+  else if (params.coulomb_deg_s2 < 0 && -params.coulomb_deg_s2 > 0.5 * params.viscous_per_s * Math.abs(params.initial_rate_deg_s)) {
+    // With c < 0 the curve settles at the rate −c/k instead of stopping; settling above half the initial rate needs a drive.
+    excluded = 'the fitted curve settles at a steady nonzero rate, which needs a drive, not a coast-down';
+  }
   return {
     result,
-    candidate: { model: 'spindown', n, k: 4, rss: out.rss, n_eff: effectiveSampleSize(n, lag1Autocorrelation(out.residuals)) },
+    candidate: { model: 'spindown', n, k: 4, rss: out.rss, n_eff: batchMeansEffectiveSize(out.residuals), ...(excluded ? { excluded } : {}) },
     residuals_deg: out.residuals,
     predict_deg: coastDownAngle(params),
     rate_deg_s: coastDownRate(params),

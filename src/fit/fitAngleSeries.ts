@@ -48,7 +48,8 @@ export interface FitResult {
 export interface AngleSeriesInput {
   t_s: Float64Array;
   angle_deg: Float64Array;
-  /** Share of frames lost by the tracker, 0…1 (default: the share of NaN angles in the window). */
+  /** Share of frames lost by the tracker, 0…1, for a series whose lost frames were already removed
+   * (when the series still holds NaN angles, the share of NaN rows in the window is used instead). */
   lost_share?: number;
 }
 
@@ -113,7 +114,7 @@ function effectiveCount(residuals: Float64Array): number {
 }
 
 const METHOD_STEADY =
-  'steady rate by generalised least squares with a white + AR(1) + random-walk angle-noise model fitted to the variogram (Kalman filter on the real frame times), standard error by batch means of the GLS score over 8 contiguous batches with a Student-t interval, zero test two-sided t, equivalence by two one-sided tests, minimum detectable rate (t_{1−α/2} + t_{0.8})·se';
+  'steady rate by generalised least squares with a white + AR(1) + random-walk angle-noise model fitted to the variogram (Kalman filter on the real frame times), standard error by a delete-a-batch jackknife over 8 contiguous batches with a Student-t interval (7 df), zero test two-sided t, equivalence by two one-sided tests, minimum detectable rate (t_{1−α/2} + t_{0.8})·se';
 const METHOD_NONLINEAR = 'spin-up and coast-down by Levenberg–Marquardt least squares with autocorrelation-aware intervals';
 const METHOD_RATE = 'rate curve by local quadratic least squares in real time (Savitzky–Golay on non-uniform frames)';
 
@@ -136,7 +137,8 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
   }
   const { t, y, lost, rows } = selectWindow(input, options);
   const n = t.length;
-  const lostShare = input.lost_share ?? lost / rows;
+  // counted inside the window when lost frames are still in the series (NaN); else as the caller says
+  const lostShare = lost > 0 || input.lost_share === undefined ? lost / rows : input.lost_share;
   const warnings: string[] = [];
   const fitOptions = { level, seed: options.seed ?? 1 };
 
@@ -149,7 +151,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
         steady = fitSteadyRate(t, y, { level, ...(options.margin_deg_s !== undefined ? { margin_deg_s: options.margin_deg_s } : {}) });
       } else {
         const fit = name === 'spinup' ? fitSpinUp(t, y, fitOptions) : fitCoastDown(t, y, fitOptions);
-        if (!hasOnlyFiniteNumbers(fit.result)) throw new FitError(`the ${name === 'spinup' ? 'spin-up' : 'coast-down'} fit gave no finite estimates for this window`);
+        if (!hasOnlyFiniteNumbers(fit.result)) throw new FitError(`the ${name === 'spinup' ? 'spin-up' : 'coast-down'} fit gave no finite estimates for this window; try another --model or a window where the rotor changes speed`);
         nonlinear[name] = fit;
       }
     } catch (err) {
@@ -177,7 +179,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
     if (choice.ambiguous) warnings.push('the model choice is ambiguous: the runner-up scores within the margin, so report both or fix the model');
   }
   const best = fits[chosen]!;
-  for (const k of fitted) for (const w of fits[k]!.warnings) warnings.push(k === chosen || k === 'steady' ? w : `${k}: ${w}`);
+  for (const k of fitted) for (const w of fits[k]!.warnings) warnings.push(k === chosen ? w : `${k}: ${w}`);
   if (!best.converged) warnings.push(`the ${chosen} fit did not converge; treat its numbers as rough`);
   if (lostShare > 0.2) warnings.push(`${(100 * lostShare).toFixed(0)}% of frames were lost in the window; check the tracking before trusting the numbers`);
 

@@ -9,6 +9,10 @@
  *    the joint conditional least-squares estimate of curve and AR parameters. The covariance of the curve
  *    parameters is s_a²(J_aᵀJ_a)⁻¹ from the whitened problem, s_a² = Σa²/(n − P − k − P) (the AR
  *    coefficients count as fitted parameters), and intervals use Student's t with that many degrees of freedom.
+ * 4. Up to `bootstrapMaxPoints` points, the interval half-widths are recalibrated by a bootstrap-t with an
+ *    autoregressive sieve (see withBootstrap below); longer series are fitted to bin means (see below).
+ * Our coverage study (bench/spinUpCoverage.mjs) motivated step 4: without it, 95% intervals covered about 90%
+ * of the time on 360-point series with AR(1) noise of lag-1 correlation 0.8.
  */
 import { levenbergMarquardt, type LeastSquaresProblem, type LevenbergMarquardtResult } from './levenbergMarquardt.js';
 import { chooseAutoregressiveOrder, fitAutoregression, whiten } from './autoregressiveErrors.js';
@@ -27,7 +31,7 @@ export interface DynamicsCurveOptions {
   replicates?: number;
   /** Seed of the bootstrap. Default 1. */
   seed?: number;
-  /** Longest series that gets the bootstrap-t calibration; longer ones are fitted on bin means with Student's t. Default 5000. */
+  /** Longest series that gets the bootstrap-t calibration; longer ones are fitted to bin means with Student's t. Default 5000. */
   bootstrapMaxPoints?: number;
   /** Bins used for series longer than `bootstrapMaxPoints`. Default 2000. */
   binnedPoints?: number;
@@ -57,6 +61,12 @@ export interface DynamicsCurveFit {
   /** How the bootstrap went (null when not run). */
   bootstrap: { replicates: number; failed: number; blockLength: number } | null;
 }
+
+/**
+ * Convergence tolerances for statistical fits: parameters to ~1e-6 of their scale, far below their standard
+ * errors (the defaults of levenbergMarquardt are tighter, for reference problems such as NIST StRD).
+ */
+const STATISTICAL_TOLERANCE = { ftol: 1e-12, xtol: 1e-9 };
 
 /** The least-squares problem of fitting `model` to (t, y). */
 export function curveProblem(model: CurveModel, t: Float64Array, y: Float64Array): LeastSquaresProblem {
@@ -139,40 +149,64 @@ export function fitDynamicsCurve(model: CurveModel, t: Float64Array, y: Float64A
     }
   }
   if (n > (options.bootstrapMaxPoints ?? 5000)) {
-    // Long series: fit with AR errors on bin means (cheap, and the bins carry all the information a smooth
-    // curve needs), then polish the point estimate by ordinary least squares on every point, which removes
-    // the small bias of comparing bin means with the curve at the bin's mean time.
+    // Long series: fit with AR errors to bin means (cheap, and for a smooth curve the bins keep nearly all
+    // the information), comparing each bin mean with the curve's average over the bin (2-point
+    // Gauss–Legendre), so binning adds no bias; then residuals on every point.
     const bins = binSeries(t, y, options.binnedPoints ?? 2000);
-    const coarse = fitWithArErrors(model, bins.t, bins.y, best, options.maxArOrder ?? 8);
+    const coarse = fitWithArErrors(binAveragedModel(model, bins.from_s, bins.to_s), bins.index, bins.y, best, options.maxArOrder ?? 8);
     if (!coarse) throw new RangeError('The model is not finite at the best start.');
-    const polish = levenbergMarquardt(curveProblem(model, t, y), coarse.params, { maxIterations: 3, covariance: false });
-    return { ...coarse, params: polish.params, residuals: polish.residuals, rss: polish.rss };
+    const residuals = new Float64Array(n);
+    curveProblem(model, t, y).residuals(coarse.params, residuals);
+    let rss = 0;
+    for (let i = 0; i < n; i++) rss += residuals[i]! * residuals[i]!;
+    return { ...coarse, residuals, rss };
   }
   const fit = fitWithArErrors(model, t, y, best, options.maxArOrder ?? 8);
   if (!fit) throw new RangeError('The model is not finite at the best start.');
   return withBootstrap(model, t, fit, options);
 }
 
-/** Means of t and y over consecutive bins of equal point count, at most `maxBins` bins. */
-export function binSeries(t: Float64Array, y: Float64Array, maxBins: number): { t: Float64Array; y: Float64Array } {
+/**
+ * Consecutive bins of equal point count (at most `maxBins`): mean y, the time span each bin's samples
+ * represent ([first − h/2, last + h/2] with h the bin's mean spacing), and the bin index 0…count−1.
+ */
+export function binSeries(t: Float64Array, y: Float64Array, maxBins: number): { index: Float64Array; y: Float64Array; from_s: Float64Array; to_s: Float64Array } {
   const n = t.length;
   const size = Math.ceil(n / maxBins);
   const count = Math.ceil(n / size);
-  const tb = new Float64Array(count);
+  const index = new Float64Array(count);
   const yb = new Float64Array(count);
+  const from_s = new Float64Array(count);
+  const to_s = new Float64Array(count);
   for (let b = 0; b < count; b++) {
-    const from = b * size;
-    const to = Math.min(n, from + size);
-    let st = 0;
+    const first = b * size;
+    const last = Math.min(n, first + size) - 1;
     let sy = 0;
-    for (let i = from; i < to; i++) {
-      st += t[i]!;
-      sy += y[i]!;
-    }
-    tb[b] = st / (to - from);
-    yb[b] = sy / (to - from);
+    for (let i = first; i <= last; i++) sy += y[i]!;
+    yb[b] = sy / (last - first + 1);
+    const h = last > first ? (t[last]! - t[first]!) / (last - first) : 0;
+    from_s[b] = t[first]! - h / 2;
+    to_s[b] = t[last]! + h / 2;
+    index[b] = b;
   }
-  return { t: tb, y: yb };
+  return { index, y: yb, from_s, to_s };
+}
+
+/** The curve averaged over bin b's time span by 2-point Gauss–Legendre quadrature; its "time" argument is the bin index b. */
+function binAveragedModel(model: CurveModel, from_s: Float64Array, to_s: Float64Array): CurveModel {
+  const g1 = new Float64Array(model.k);
+  const node = 1 / (2 * Math.sqrt(3));
+  return {
+    k: model.k,
+    evaluate: (p, b, grad) => {
+      const mid = (from_s[b]! + to_s[b]!) / 2;
+      const half = (to_s[b]! - from_s[b]!) * node;
+      const v1 = model.evaluate(p, mid - half, g1);
+      const v2 = model.evaluate(p, mid + half, grad);
+      for (let j = 0; j < model.k; j++) grad[j] = (grad[j]! + g1[j]!) / 2;
+      return (v1 + v2) / 2;
+    },
+  };
 }
 
 /** From a start: OLS fit, AR order, then feasible GLS; null when the model cannot be evaluated. */
@@ -181,20 +215,23 @@ function fitWithArErrors(model: CurveModel, t: Float64Array, y: Float64Array, st
   const k = model.k;
   let ols: LevenbergMarquardtResult;
   try {
-    ols = levenbergMarquardt(curveProblem(model, t, y), start, { maxIterations });
+    ols = levenbergMarquardt(curveProblem(model, t, y), start, { maxIterations, ...STATISTICAL_TOLERANCE });
   } catch {
     return null;
   }
   const order = chooseAutoregressiveOrder(ols.residuals, Math.min(maxArOrder, Math.floor((n - k) / 20)));
-  if (order === 0) {
+  let sumSqY = 0;
+  for (let i = 0; i < n; i++) sumSqY += y[i]! * y[i]!;
+  // An exact fit (residuals at rounding level) carries no information about the noise: keep the OLS answer.
+  if (order === 0 || ols.rss <= 1e-24 * sumSqY) {
     return { params: ols.params, covariance: ols.covariance, dof: ols.dof, residuals: ols.residuals, rss: ols.rss, phi: new Float64Array(0), converged: ols.converged, reason: ols.reason, tQuantile: null, bootstrap: null };
   }
   let p = ols.params;
   let e = ols.residuals;
   let phi = fitAutoregression(e, order);
   let gls: LevenbergMarquardtResult = ols;
-  for (let round = 0; round < 12; round++) {
-    gls = levenbergMarquardt(whitenedProblem(model, t, y, phi), p, { maxIterations });
+  for (let round = 0; round < 8; round++) {
+    gls = levenbergMarquardt(whitenedProblem(model, t, y, phi), p, { maxIterations: round === 0 ? maxIterations : 30, ...STATISTICAL_TOLERANCE });
     p = gls.params;
     e = new Float64Array(n);
     curveProblem(model, t, y).residuals(p, e);
@@ -202,7 +239,7 @@ function fitWithArErrors(model: CurveModel, t: Float64Array, y: Float64Array, st
     let change = 0;
     for (let j = 0; j < order; j++) change = Math.max(change, Math.abs(next[j]! - phi[j]!));
     phi = next;
-    if (change < 1e-4) break;
+    if (change < 1e-3) break;
   }
   const m = n - order;
   const dof = m - k - order;
@@ -216,11 +253,13 @@ function fitWithArErrors(model: CurveModel, t: Float64Array, y: Float64Array, st
 /**
  * Bootstrap-t calibration of the intervals (Efron & Tibshirani 1993, ch. 12; symmetric form, Hall 1988) with
  * an autoregressive sieve bootstrap of the noise (Kreiss 1992; Bühlmann 1997): each replicate rebuilds noise
- * from the fitted AR(P) driven by circular-block-resampled innovations (blocks keep any dependence the AR
- * model missed; the block length is chosen from the innovations and is 1 when they are white), adds it to the
+ * from an AR(P) driven by circular-block-resampled innovations (blocks keep any dependence the AR model
+ * missed; the block length is chosen from the innovations and is 1 when they are white), adds it to the
  * fitted curve and repeats the whole fit; |t*| = |q* − q̂|/se* gives the interval half-width in units of se.
- * This corrects the too-narrow intervals of short series, whose residuals under-represent slow noise that the
- * curve has absorbed.
+ * In short series the curve absorbs part of the slow noise, so the fitted AR coefficients understate the
+ * persistence of the noise. As in Kilian's (1998) bootstrap-after-bootstrap, a first stage of B/4
+ * replicates measures that bias of the coefficient sum Σφ and the second stage simulates from coefficients
+ * scaled to remove it (capped at Σφ = 0.98 to stay stationary).
  */
 function withBootstrap(model: CurveModel, t: Float64Array, fit: DynamicsCurveFit, options: DynamicsCurveOptions): DynamicsCurveFit {
   const n = t.length;
@@ -228,6 +267,7 @@ function withBootstrap(model: CurveModel, t: Float64Array, fit: DynamicsCurveFit
   const replicates = options.replicates ?? 199;
   if (replicates < 20 || n > (options.bootstrapMaxPoints ?? 5000)) return fit;
   const level = options.level ?? 0.95;
+  const maxArOrder = options.maxArOrder ?? 8;
   const order = fit.phi.length;
   const innovations = new Float64Array(n - order);
   whiten(fit.residuals, fit.phi, innovations);
@@ -236,19 +276,16 @@ function withBootstrap(model: CurveModel, t: Float64Array, fit: DynamicsCurveFit
   mean /= innovations.length;
   for (let i = 0; i < innovations.length; i++) innovations[i] = innovations[i]! - mean;
   const sampler = circularBlockSampler(innovations, chooseBlockLength(innovations), options.seed ?? 1);
-  const burn = Math.min(200, 10 * order);
+  const burn = Math.min(200, 10 * Math.max(order, 1));
   const drawn = new Float64Array(innovations.length);
   const fitted = new Float64Array(n);
-  for (let i = 0; i < n; i++) fitted[i] = 0;
   const grad = new Float64Array(k);
   for (let i = 0; i < n; i++) fitted[i] = model.evaluate(fit.params, t[i]!, grad);
   const yStar = new Float64Array(n);
   const noise = new Float64Array(n + burn);
-  const tAbs: Float64Array[] = Array.from({ length: k }, () => new Float64Array(replicates));
-  let used = 0;
-  let failed = 0;
-  for (let r = 0; r < replicates; r++) {
-    // Noise: AR recursion over burn-in + n samples, innovations drawn in blocks (refilled as needed).
+
+  /** One replicate: noise from AR(phi), refit; null when the refit fails. */
+  const replicate = (phi: Float64Array): DynamicsCurveFit | null => {
     let cursor = drawn.length;
     for (let i = 0; i < n + burn; i++) {
       if (cursor === drawn.length) {
@@ -256,19 +293,48 @@ function withBootstrap(model: CurveModel, t: Float64Array, fit: DynamicsCurveFit
         cursor = 0;
       }
       let v = drawn[cursor++]!;
-      for (let j = 0; j < order && i - j - 1 >= 0; j++) v += fit.phi[j]! * noise[i - j - 1]!;
+      for (let j = 0; j < phi.length && i - j - 1 >= 0; j++) v += phi[j]! * noise[i - j - 1]!;
       noise[i] = v;
     }
     for (let i = 0; i < n; i++) yStar[i] = fitted[i]! + noise[burn + i]!;
-    const f = fitWithArErrors(model, t, yStar, fit.params, options.maxArOrder ?? 8, 50);
+    return fitWithArErrors(model, t, yStar, fit.params, maxArOrder, 50);
+  };
+  const sum = (phi: Float64Array) => phi.reduce((a, b) => a + b, 0);
+
+  // Stage 1: bias of the persistence Σφ.
+  let phi = fit.phi;
+  const sumHat = sum(phi);
+  if (order > 0 && sumHat > 0) {
+    let total = 0;
+    let count = 0;
+    const stage1 = Math.max(20, Math.floor(replicates / 4));
+    for (let r = 0; r < stage1; r++) {
+      const f = replicate(fit.phi);
+      if (f) {
+        total += sum(f.phi);
+        count++;
+      }
+    }
+    const bias = count > 0 ? total / count - sumHat : 0;
+    if (bias < 0) {
+      const target = Math.min(0.98, sumHat - bias);
+      phi = fit.phi.map((v) => (v * target) / sumHat);
+    }
+  }
+
+  // Stage 2: bootstrap-t.
+  const tAbs: Float64Array[] = Array.from({ length: k }, () => new Float64Array(replicates));
+  let used = 0;
+  let failed = 0;
+  for (let r = 0; r < replicates; r++) {
+    const f = replicate(phi);
     if (!f) {
       failed++;
       continue;
     }
     let ok = true;
     for (let j = 0; j < k; j++) {
-      const se = Math.sqrt(f.covariance[j * k + j]!);
-      const v = Math.abs(f.params[j]! - fit.params[j]!) / se;
+      const v = Math.abs(f.params[j]! - fit.params[j]!) / Math.sqrt(f.covariance[j * k + j]!);
       if (!Number.isFinite(v)) ok = false;
       tAbs[j]![used] = v;
     }

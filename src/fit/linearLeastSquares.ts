@@ -49,8 +49,12 @@ export function linearLeastSquares(columns: ArrayLike<number>[], y: ArrayLike<nu
   const rdiag = new Float64Array(p);
   for (let k = 0; k < p; k++) {
     const ak = a[k]!;
-    let norm = 0;
-    for (let i = k; i < n; i++) norm = Math.hypot(norm, ak[i]!);
+    // 2-norm with scaling (no overflow/underflow; columns are already of unit norm)
+    let big = 0;
+    for (let i = k; i < n; i++) big = Math.max(big, Math.abs(ak[i]!));
+    let ss = 0;
+    if (big > 0) for (let i = k; i < n; i++) ss += (ak[i]! / big) ** 2;
+    let norm = big * Math.sqrt(ss);
     if (!(norm > 1e-13)) throw new RankDeficientError(`design column ${k + 1} depends linearly on the others`);
     if (ak[k]! > 0) norm = -norm;
     // v = a_k[k:] − norm·e_1, stored in place; H = I − 2vvᵀ/vᵀv
@@ -95,10 +99,11 @@ export function linearLeastSquares(columns: ArrayLike<number>[], y: ArrayLike<nu
     }
   }
   const residuals = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let fit = 0;
-    for (let j = 0; j < p; j++) fit += columns[j]![i]! * coefficients[j]!;
-    residuals[i] = y[i]! - fit;
+  for (let i = 0; i < n; i++) residuals[i] = y[i]!;
+  for (let j = 0; j < p; j++) {
+    const col = columns[j]!;
+    const b = coefficients[j]!;
+    for (let i = 0; i < n; i++) residuals[i]! -= col[i]! * b;
   }
   const rss = compensatedSumOfSquares(residuals);
   const df = n - p;

@@ -18,7 +18,8 @@ const LOST_CELLS = new Set(['', 'nan', 'NaN', 'NAN', 'na', 'NA']);
 
 /**
  * Reads an angle table (angle.csv as written by `revtrace track`, or any CSV with a header holding the
- * columns t_s and angle_deg; other columns are ignored, lines starting with # are comments). An empty or
+ * columns t_s and angle_deg; other columns are ignored, lines starting with # are comments; files with quoted
+ * cells go through csv-parse, plain ones are split directly, which is several times faster). An empty or
  * NaN angle marks a lost frame. Checks: both columns present, every cell numeric, times strictly
  * increasing, at least 10 valid rows — otherwise an InputError with one sentence.
  */
@@ -31,10 +32,20 @@ export async function readAngleTable(path: string): Promise<AngleTableRows> {
     throw new InputError(code === 'ENOENT' ? `angle table ${path} does not exist; give the path of an angle.csv` : `cannot read angle table ${path} (${code ?? String(err)})`, { cause: err });
   }
   let records: string[][];
-  try {
-    records = parse(text, { comment: '#', skip_empty_lines: true, trim: true, relax_column_count: true, bom: true }) as string[][];
-  } catch (err) {
-    throw new InputError(`${path} is not a readable CSV file (${err instanceof Error ? err.message : String(err)})`, { cause: err });
+  if (!text.includes('"')) {
+    // fast path for the common unquoted numeric table (what `revtrace track` writes): split lines and commas
+    records = [];
+    for (const raw of text.replace(/^\uFEFF/, '').split(/\r?\n/)) {
+      const line = raw.trim();
+      if (line === '' || line.startsWith('#')) continue;
+      records.push(line.split(',').map((c) => c.trim()));
+    }
+  } else {
+    try {
+      records = parse(text, { comment: '#', skip_empty_lines: true, trim: true, relax_column_count: true, bom: true }) as string[][];
+    } catch (err) {
+      throw new InputError(`${path} is not a readable CSV file (${err instanceof Error ? err.message : String(err)})`, { cause: err });
+    }
   }
   if (records.length === 0) throw new InputError(`${path} is empty; it needs a header with t_s and angle_deg and one row per frame`);
   const header = records[0]!;

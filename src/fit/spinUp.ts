@@ -6,15 +6,17 @@
  * Angles deg (counterclockwise positive as displayed), times s, ω∞ deg/s, τ s.
  * Fitted to the unwrapped angle by Levenberg–Marquardt (τ on a log scale so it stays positive), starting
  * from a grid over (t0, τ) on which θ0 and ω∞ enter linearly and are solved exactly (variable projection in
- * the sense of Golub & Pereyra 1973, used here only for start values); intervals from a circular block
- * bootstrap of the residuals (see fitCurveWithBootstrap.ts).
+ * the sense of Golub & Pereyra 1973, used here only for start values); autocorrelation-aware intervals by
+ * least squares with autoregressive errors and a bootstrap-t calibration (see fitDynamicsCurve.ts).
  */
 import { InputError } from '../errors.js';
+import { DynamicsFitError } from './DynamicsFitError.js';
+import { checkDynamicsSeries } from './checkDynamicsSeries.js';
 import type { SpinUpResult } from './FitReport.js';
 import type { ModelFit } from './ModelFit.js';
 import { type CurveModel, type DynamicsCurveOptions, fitDynamicsCurve, thinSeries } from './fitDynamicsCurve.js';
 import { estimateFromCurve } from './curveEstimate.js';
-import { effectiveSampleSize, lag1Autocorrelation } from './blockBootstrap.js';
+import { batchMeansEffectiveSize } from './batchMeansEffectiveSize.js';
 
 /** Spin-up parameters: angle at rest θ0 (deg), onset t0 (s, same clock as the data), terminal rate ω∞ (deg/s), time constant τ (s). */
 export interface SpinUpParams {
@@ -112,23 +114,13 @@ function spinUpStarts(t: Float64Array, y: Float64Array, count: number): Float64A
   return candidates.slice(0, count).map((c) => c.p);
 }
 
-/** Checks the inputs shared by the dynamics fits; throws InputError with one sentence. */
-export function checkSeries(t_s: Float64Array, angle_deg: Float64Array, what: string, minPoints: number): void {
-  if (t_s.length !== angle_deg.length) throw new InputError(`The ${what} fit got ${t_s.length} times but ${angle_deg.length} angles; give one angle per time.`);
-  if (t_s.length < minPoints) throw new InputError(`The ${what} fit needs at least ${minPoints} points but got ${t_s.length}; widen the time window.`);
-  for (let i = 0; i < t_s.length; i++) {
-    if (!Number.isFinite(t_s[i]!) || !Number.isFinite(angle_deg[i]!)) throw new InputError(`The ${what} fit got a missing or non-finite value at row ${i + 1}; drop or fill lost frames first.`);
-    if (i > 0 && !(t_s[i]! > t_s[i - 1]!)) throw new InputError(`The ${what} fit needs strictly increasing times, but row ${i + 1} (t = ${t_s[i]} s) does not follow row ${i}; sort the series and drop duplicate times.`);
-  }
-}
-
 /**
  * Fits the spin-up model to an unwrapped angle series.
  * @param t_s       frame times, s, strictly increasing
  * @param angle_deg unwrapped angle, deg, counterclockwise positive as displayed
  */
 export function fitSpinUp(t_s: Float64Array, angle_deg: Float64Array, options: SpinUpOptions = {}): ModelFit<SpinUpResult> {
-  checkSeries(t_s, angle_deg, 'spin-up', 8);
+  checkDynamicsSeries(t_s, angle_deg, 'spin-up', 8);
   const level = options.level ?? 0.95;
   const n = t_s.length;
   const tRef = t_s[0]!;
@@ -150,6 +142,12 @@ export function fitSpinUp(t_s: Float64Array, angle_deg: Float64Array, options: S
     theta0_deg: est(0),
   };
 
+  if (params.onset_s + 5 * params.tau_s < t_s[0]!) {
+    throw new DynamicsFitError('The window shows no spin-up: the best spin-up curve reaches its terminal rate before the window starts; use the steady model or a window that includes the start.');
+  }
+  if (![result.onset_s, result.terminal_rate_deg_s, result.tau_s, result.theta0_deg].every((e) => Number.isFinite(e.se))) {
+    throw new DynamicsFitError('The spin-up parameters cannot be told apart in this window; use a window that includes the rotor at rest and its approach to a steady rate.');
+  }
   const warnings: string[] = [];
   if (!out.converged) warnings.push(`The spin-up fit did not converge (${out.reason}); treat its estimates with caution.`);
   const dtMedian = (t[n - 1]! - t[0]!) / (n - 1);
@@ -160,7 +158,7 @@ export function fitSpinUp(t_s: Float64Array, angle_deg: Float64Array, options: S
   const predict_deg = spinUpAngle(params);
   return {
     result,
-    candidate: { model: 'spinup', n, k: 4, rss: out.rss, n_eff: effectiveSampleSize(n, lag1Autocorrelation(out.residuals)) },
+    candidate: { model: 'spinup', n, k: 4, rss: out.rss, n_eff: batchMeansEffectiveSize(out.residuals) },
     residuals_deg: out.residuals,
     predict_deg,
     rate_deg_s: spinUpRate(params),

@@ -4,6 +4,7 @@ import type { ModelFit } from './ModelFit.js';
 import { linearLeastSquares } from './linearLeastSquares.js';
 import { fitAngleNoiseModel, type AngleNoiseModel } from './angleNoiseModel.js';
 import { kalmanWhiten } from './stateSpaceGls.js';
+import { medianInterval } from '../signal/medianInterval.js';
 import { zeroTest } from './zeroTest.js';
 import { minDetectableRate } from './minDetectableRate.js';
 import { scaleEstimate, RPM_PER_DEG_S, REV_S_PER_DEG_S } from './units.js';
@@ -23,7 +24,7 @@ export interface SteadyRateOptions {
 
 /** The noise model the steady fit settled on (see fitAngleNoiseModel) and the standard-error settings. */
 export interface SteadyNoiseModel extends AngleNoiseModel {
-  /** Number of batches of the batch-means standard error (df = batches − 1). */
+  /** Number of batches of the jackknife standard error (df = batches − 1). */
   batches: number;
   /** Median frame interval, s. */
   frame_interval_s: number;
@@ -34,7 +35,7 @@ export interface SteadyRateFit extends ModelFit<SteadyResult> {
   noise: SteadyNoiseModel;
   /** Degrees of freedom of the Student-t reference. */
   df: number;
-  /** The GLS standard error the noise model alone implies, deg/s (for comparison with the batch-means one). */
+  /** The GLS standard error the noise model alone implies, deg/s (for comparison with the jackknife one). */
   model_se_deg_s: number;
   /** Segment homogeneity: p-value of a χ² test that all segment rates are equal (null with one segment). */
   segment_p_value: number | null;
@@ -51,7 +52,7 @@ interface SlopeFit {
   modelSe: number;
 }
 
-/** Number of batches for the batch-means standard error of a fit on m rows: 8, fewer so each holds ≥ 5 rows, at least 2. */
+/** Number of batches for the jackknife standard error of a fit on m rows: 8, fewer so each holds ≥ 5 rows, at least 2. */
 export function batchCount(m: number, most = 8): number {
   return Math.max(2, Math.min(most, Math.floor(m / 5)));
 }
@@ -63,11 +64,30 @@ function slopeFromSums(s11: number, s12: number, s22: number, s1y: number, s2y: 
   return (s11 * s2y - s12 * s1y) / det;
 }
 
+/** v_b of glsSlope's degrees of freedom from the full and batch normal-equation sums [s11, s12, s22, …]. */
+function jackknifeShare(total: Float64Array, batch: Float64Array): number {
+  const g11 = total[0]!, g12 = total[1]!, g22 = total[2]!;
+  const b11 = batch[0]!, b12 = batch[1]!, b22 = batch[2]!;
+  const r11 = g11 - b11, r12 = g12 - b12, r22 = g22 - b22;
+  const rdet = r11 * r22 - r12 * r12;
+  const gdet = g11 * g22 - g12 * g12;
+  if (!(rdet > 0) || !(gdet > 0)) return 0;
+  // u = (G − G_b)⁻¹ e₂
+  const u1 = -r12 / rdet;
+  const u2 = r11 / rdet;
+  const w1 = b11 * u1 + b12 * u2; // G_b u
+  const w2 = b12 * u1 + b22 * u2;
+  const quad = u1 * w1 + u2 * w2;
+  const back = (g22 * w1 * w1 - 2 * g12 * w1 * w2 + g11 * w2 * w2) / gdet; // (G_b u)ᵀ G⁻¹ (G_b u)
+  return Math.max(0, quad - back);
+}
+
 /**
  * Generalised least squares of y = c + ω·t + u on rows lo…hi−1 for the given noise model (kalmanWhiten).
  * Standard error by the delete-a-batch jackknife over B contiguous batches of the whitened rows (the block
  * jackknife for dependent data, Künsch 1989, Ann. Statist. 17:1217): ω̂_(−b) refitted without batch b,
- * Var(ω̂) ≈ (B−1)/B·Σ_b (ω̂_(−b) − ω̄)², Student-t with B − 1 df (fixed-b inference with few batches).
+ * Var(ω̂) ≈ (B−1)/B·Σ_b (ω̂_(−b) − ω̄)², Student-t with B − 1 df reduced for unequal batch influence
+ * (see the df comment below; fixed-b inference with few batches).
  * The jackknife accounts for the high leverage of the end batches in a trend fit, which plain batch means
  * of the score do not (they under-cover by several points). Whatever slow wander the noise model misses stays
  * in the batches and widens the interval.
@@ -103,7 +123,15 @@ function glsSlope(t: Float64Array, y: Float64Array, lo: number, hi: number, mode
   );
   const mean = leaveOut.reduce((a, v) => a + v, 0) / b;
   const varSlope = ((b - 1) / b) * leaveOut.reduce((a, v) => a + (v - mean) ** 2, 0);
-  return { slope: c1, se: Math.sqrt(varSlope), df: b - 1, intercept: c0, batches: b, modelSe: fit.se[1]! };
+  // Design-based degrees of freedom: under white whitened errors, the slope change from deleting batch b has
+  // variance ∝ v_b = uᵀG_b u − (G_b u)ᵀG⁻¹(G_b u), u = (G − G_b)⁻¹e₂ (G, G_b the full and batch Gram
+  // matrices). Unequal v_b (a trend fit leans on its end batches) leave fewer effective degrees of freedom:
+  // df = (B − 1)·(Σv)²/(B·Σv²), a Satterthwaite (1946) style correction; B − 1 when all v_b are equal.
+  const v = sums.map((acc) => jackknifeShare(total, acc));
+  const sv = v.reduce((a, x) => a + x, 0);
+  const sv2 = v.reduce((a, x) => a + x * x, 0);
+  const df = sv2 > 0 && sv > 0 ? Math.max(1, ((b - 1) * sv * sv) / (b * sv2)) : b - 1;
+  return { slope: c1, se: Math.sqrt(varSlope), df, intercept: c0, batches: b, modelSe: fit.se[1]! };
 }
 
 function estimate(value: number, se: number, df: number, level: number): Estimate {
@@ -125,8 +153,9 @@ function estimate(value: number, se: number, df: number, level: number): Estimat
  *    is the mean of the increments; in between it weighs both continuously — no switch between regimes.
  * 3. Standard error: delete-a-batch (block) jackknife over B contiguous batches of the whitened rows,
  *    Student-t with B − 1 df (glsSlope). The noise model only has to be good enough for efficiency; the
- *    interval's validity rests on the batches, so slow wander the model misses still widens it. The noise model only has to be good enough for efficiency; the interval's
- *    validity rests on the batches, so slow wander the model misses still widens it.
+ *    interval's validity rests mostly on the batches, so slow wander the model misses still widens it
+ *    (not fully: when strong AR noise hides a random walk, coverage drops to about 92% — bench/RESULTS.md).
+ *    B = 8: fewer batches were no better in the seeded study, more under-covered under a wandering rate.
  * Why not the alternatives: the mean of K segment slopes (batch means) has K² times the variance of the
  * full-window slope under white noise; Newey–West on the residuals of the plain level regression fails
  * when the angle wanders (its residuals are then integrated noise). Segment rates (same noise model, per
@@ -140,11 +169,13 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
   if (n < 10) throw new InputError(`a steady rate needs at least 10 valid frames, got ${n}`);
   const t0 = t_s[0]!;
   const y0 = angle_deg[0]!;
-  const t = Float64Array.from(t_s, (v) => v - t0);
-  const y = Float64Array.from(angle_deg, (v) => v - y0);
-  const intervals = new Float64Array(n - 1);
-  for (let i = 1; i < n; i++) intervals[i - 1] = t[i]! - t[i - 1]!;
-  const delta = Float64Array.from(intervals).sort()[Math.floor((n - 1) / 2)]!;
+  const t = new Float64Array(n);
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    t[i] = t_s[i]! - t0;
+    y[i] = angle_deg[i]! - y0;
+  }
+  const delta = medianInterval(t);
 
   const model = fitAngleNoiseModel(t, y);
   const whole = glsSlope(t, y, 0, n, model);
@@ -193,14 +224,15 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
 
   // level residuals for diagnostics and model choice
   const intercept = whole.intercept;
-  const residuals = Float64Array.from(y, (v, i) => v - intercept - whole.slope * t[i]!);
+  const residuals = new Float64Array(n);
+  for (let i = 0; i < n; i++) residuals[i] = y[i]! - intercept - whole.slope * t[i]!;
   let rss = 0;
   for (const e of residuals) rss += e * e;
 
   const warnings: string[] = [];
   if (segmentP !== null && segmentP < 0.01) {
     warnings.push(
-      `the segment rates differ more than the noise explains (p = ${segmentP.toPrecision(2)}): the rate is not steady across the window, so the interval describes the window's mean rate`,
+      `the segment rates differ more than the noise explains (p ${segmentP < 0.001 ? '< 0.001' : `= ${segmentP.toPrecision(2)}`}): the rate is not steady across the window, so the interval describes the window's mean rate`,
     );
   }
   const result: SteadyResult = {

@@ -3,6 +3,7 @@ import type { FitReport } from '../fit/FitReport.js';
 import { compareDirections, studentQuantile, type DirectionComparison, type RateEstimate } from '../fit/compareDirections.js';
 import { fitPowerLaw, type PowerLawFit } from '../fit/fitPowerLaw.js';
 import { poolReplicates, type PooledRate } from '../fit/poolReplicates.js';
+import { modelLabel } from './formatQuantity.js';
 
 /** One run's rate as used in the comparison. */
 export interface RunRate {
@@ -75,7 +76,7 @@ export function runRate(record: RunRecord, fit: FitReport | null): { rate: RunRa
     const e = fit.spinup.terminal_rate_deg_s;
     return { rate: { ...base, estimate: { value_deg_s: e.value, se_deg_s: e.se, df: Infinity }, ci_deg_s: e.ci, source: 'spin-up terminal rate' }, reason: null };
   }
-  return { rate: null, reason: `a ${fit.model} fit has no single rate to compare` };
+  return { rate: null, reason: `a ${modelLabel(fit.model)} fit has no single rate to compare` };
 }
 
 /**

@@ -1,4 +1,5 @@
 import type { RunData } from './ReportData.js';
+import { formatFixed, formatSig } from './formatQuantity.js';
 
 /** One data-quality finding about a run, in plain words. */
 export interface QualityNote {
@@ -9,7 +10,7 @@ export interface QualityNote {
   serious: boolean;
 }
 
-const pct = (x: number): string => `${(100 * x).toFixed(x < 0.01 ? 2 : 1)}%`;
+const pct = (x: number): string => `${formatFixed(100 * x, x < 0.01 ? 2 : 1)}%`;
 
 /** Plain-word meaning of a frame flag from angle.csv, by the words it contains. */
 export function explainFlag(flag: string, count: number, total: number): string {
@@ -46,24 +47,30 @@ export function qualityNotes(run: RunData): QualityNote[] {
     if (v && v.axis_ratio < 0.97) {
       notes.push({
         label: 'oblique camera',
-        words: `The marker path is an ellipse (axis ratio ${v.axis_ratio.toFixed(3)}, about ${v.tilt_deg.value.toFixed(1)}° from face-on); ${v.corrected ? `angles were corrected for it (largest correction ${v.max_correction_deg.toFixed(1)}°).` : 'angles were not corrected for it.'}`,
+        words: `The marker path is an ellipse (axis ratio ${formatFixed(v.axis_ratio, 3)}, about ${formatFixed(v.tilt_deg?.value, 1)}° from face-on); ${v.corrected ? `angles were corrected for it (largest correction ${formatFixed(v.max_correction_deg, 1)}°).` : 'angles were not corrected for it.'}`,
         serious: !v.corrected && v.axis_ratio < 0.9,
       });
     }
     const cm = track.camera_motion;
-    if (cm && cm.max_shift_px > 1) notes.push({ label: 'camera moved', words: `The camera moved by up to ${cm.max_shift_px.toFixed(1)} px and turned by up to ${cm.max_rotation_deg.toFixed(2)}°; this was measured against a fixed anchor and removed.`, serious: false });
-    if (track.splits.length > 0) notes.push({ label: 'track split', words: `The track was interrupted ${track.splits.length} time${track.splits.length === 1 ? '' : 's'} for longer than can be bridged safely (longest ${Math.max(...track.splits.map((s) => s.gap_s)).toFixed(2)} s); the angle count restarts after each break.`, serious: true });
+    if (cm && cm.max_shift_px > 1) notes.push({ label: 'camera moved', words: `The camera moved by up to ${formatFixed(cm.max_shift_px, 1)} px and turned by up to ${formatFixed(cm.max_rotation_deg, 2)}°; this was measured against a fixed anchor and removed.`, serious: false });
+    if (track.splits.length > 0) notes.push({ label: 'track split', words: `The track was interrupted ${track.splits.length} time${track.splits.length === 1 ? '' : 's'} for longer than can be bridged safely (longest ${formatFixed(Math.max(...track.splits.map((s) => s.gap_s)), 2)} s); the angle count restarts after each break.`, serious: true });
     for (const w of track.warnings) notes.push({ label: 'tracking', words: w, serious: true });
   }
   if (fit) {
     const r1 = fit.diagnostics.residual_autocorrelation[0];
-    if (r1 !== undefined && r1 > 0.5) notes.push({ label: 'correlated residuals', words: `Residuals are strongly correlated from frame to frame (lag-1 correlation ${r1.toFixed(2)}): the rotor does not turn perfectly evenly or the marker wobbles. Intervals come from the fit method (${fit.method}).`, serious: false });
+    if (r1 !== undefined && r1 > 0.5) notes.push({ label: 'correlated residuals', words: `Residuals are strongly correlated from frame to frame (lag-1 correlation ${formatFixed(r1, 2)}): the rotor does not turn perfectly evenly or the marker wobbles. Intervals come from the fit method (${fit.method}).`, serious: false });
     if (fit.selection?.ambiguous) notes.push({ label: 'model choice unclear', words: 'Two models describe the angle about equally well; the chosen one is shown, but the other is nearly as good.', serious: true });
     const z = fit.steady?.zero_test;
     if (z && fit.steady && z.p_value >= 1 - fit.steady.rate_deg_s.level) {
-      notes.push({ label: 'rate near zero', words: `The rate is not distinguishable from zero (p = ${z.p_value.toPrecision(2)}); this run would detect a rate of about ${fit.steady.min_detectable_deg_s.toPrecision(2)} deg/s.`, serious: false });
+      notes.push({ label: 'rate near zero', words: `The rate is not distinguishable from zero (p = ${formatSig(z.p_value, 2)}); this run would detect a rate of about ${formatSig(fit.steady.min_detectable_deg_s, 2)} deg/s.`, serious: false });
     }
-    for (const w of fit.diagnostics.warnings) notes.push({ label: 'fit', words: w, serious: true });
+    for (const w of fit.diagnostics.warnings) {
+      // a note about a candidate model that was not chosen (e.g. "spin-up could not be fitted") is not a warning about the result
+      const named = [...w.toLowerCase().matchAll(/\b(steady|spin-?up|spin-?down|coast-?down)\b/g)].map((m) => (m[1] === 'steady' ? 'steady' : m[1]!.endsWith('up') ? 'spinup' : 'spindown'));
+      // judged by the first model the sentence names ("spin-up could not be fitted…; use the steady model")
+      const aboutOther = named.length > 0 && named[0] !== fit.model;
+      notes.push({ label: aboutOther ? 'fit (model not chosen)' : 'fit', words: w, serious: !aboutOther });
+    }
   }
   const seen = new Set(notes.map((n) => n.words));
   for (const w of record.warnings) if (!seen.has(w)) notes.push({ label: 'batch', words: w, serious: true });

@@ -44,7 +44,11 @@ export async function renderChart(spec: TopLevelSpec): Promise<string> {
     for (const [name, values] of datasets) view.data(name, values);
     const svg = await view.toSVG();
     const prefix = `c${++chartCounter}-`;
-    return svg.replace(/\bid="([^"]+)"/g, `id="${prefix}$1"`).replace(/url\(#([^)]+)\)/g, `url(#${prefix}$1)`);
+    return svg
+      .replace(/\bid="([^"]+)"/g, `id="${prefix}$1"`)
+      .replace(/url\(#([^)]+)\)/g, `url(#${prefix}$1)`)
+      // coordinates in attribute values to 1/100 px (text content, e.g. axis labels, is left alone)
+      .replace(/="([^"]*)"/g, (_m, v: string) => `="${v.replace(/(\d\.\d\d)\d+/g, '$1')}"`);
   } finally {
     view.finalize();
   }

@@ -72,7 +72,7 @@ export function comparisonTables(summary: ComparisonSummary): { comparison: Safe
 <tbody>${summary.trends.map((t) => html`<tr><th scope="row">${t.group || '—'}</th><td><span class="dir dir-${t.direction}">${t.direction}</span></td><td class="num">${t.fit ? t.fit.n : '—'}</td>
 <td class="num">${t.fit ? formatInterval(t.fit.b.value, t.fit.b.ci, t.fit.b.se) : '—'}</td>
 <td class="num">${t.fit ? `${formatSig(t.fit.a.value)} [${formatSig(t.fit.a.ci[0])}, ${formatSig(t.fit.a.ci[1])}]` : '—'}</td>
-<td class="num">${t.fit ? t.fit.r2_log.toFixed(3) : '—'}</td><td>${t.sign > 0 ? 'counterclockwise (+)' : 'clockwise (−)'}</td><td>${t.notes.join(' ')}</td></tr>`)}</tbody></table></div>`;
+<td class="num">${t.fit ? formatFixed(t.fit.r2_log, 3) : '—'}</td><td>${t.sign > 0 ? 'counterclockwise (+)' : 'clockwise (−)'}</td><td>${t.notes.join(' ')}</td></tr>`)}</tbody></table></div>`;
   return { comparison, replicates, trends };
 }
 

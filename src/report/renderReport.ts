@@ -2,7 +2,7 @@ import { basename } from 'node:path';
 import { buildComparison } from './buildComparison.js';
 import { comparisonChartSpecs } from './comparisonCharts.js';
 import { html, trusted, type SafeHtml } from './escapeHtml.js';
-import { formatRate } from './formatQuantity.js';
+import { formatFixed, formatRate, modelLabel } from './formatQuantity.js';
 import { qualityNotes } from './qualityNotes.js';
 import { REPORT_CSS } from './reportStyle.js';
 import type { ReportData } from './ReportData.js';
@@ -38,9 +38,17 @@ export async function renderReport(data: ReportData, options: RenderOptions = {}
   const warnings: SafeHtml[] = [];
   for (const r of data.runs) if (r.record.status === 'failed') warnings.push(html`<li>Run <a href="#${runAnchor(r.record.run)}">${r.record.run}</a> failed: ${r.record.error ?? 'no reason recorded'}</li>`);
   for (const u of data.unreadable) warnings.push(html`<li>Run folder ${u.run} has a run.json that could not be read (${u.reason}); it is left out.</li>`);
+  const runSections: SafeHtml[] = [];
   for (const r of data.runs) {
-    if (r.record.status !== 'ok') continue;
-    for (const n of qualityNotes(r).filter((q) => q.serious)) warnings.push(html`<li>Run <a href="#${runAnchor(r.record.run)}">${r.record.run}</a> (${n.label}): ${n.words}</li>`);
+    try {
+      if (r.record.status === 'ok') for (const n of qualityNotes(r).filter((q) => q.serious)) warnings.push(html`<li>Run <a href="#${runAnchor(r.record.run)}">${r.record.run}</a> (${n.label}): ${n.words}</li>`);
+      runSections.push(await renderRunSection(r, { report_dir: reportDir, buckets: options.buckets }));
+    } catch (err) {
+      // one malformed run file must not cost the whole report
+      const why = err instanceof Error ? err.message : String(err);
+      warnings.push(html`<li>Run <a href="#${runAnchor(r.record.run)}">${r.record.run}</a>: its section could not be drawn (${why}); check its files.</li>`);
+      runSections.push(html`<article class="run" id="${runAnchor(r.record.run)}"><h3>Run ${r.record.run}</h3><p>This run’s section could not be drawn: ${why}.</p></article>`);
+    }
   }
   for (const e of summary.excluded) warnings.push(html`<li>Run <a href="#${runAnchor(e.run)}">${e.run}</a> is not in the comparison: ${e.reason}.</li>`);
   for (const s of summary.settings) for (const n of s.notes) if (/No (forward|reverse) run/.test(n)) warnings.push(html`<li>${s.group ? `${s.group}, ` : ''}setting ${s.setting ?? 'none'} ${s.setting_unit}: ${n}</li>`);
@@ -57,11 +65,9 @@ export async function renderReport(data: ReportData, options: RenderOptions = {}
     const est = f?.steady?.rate_deg_s ?? f?.spinup?.terminal_rate_deg_s ?? f?.spindown?.initial_rate_deg_s ?? null;
     const fr = est ? formatRate(est.value, est.ci, est.se) : null;
     const lost = r.record.lost_share ?? f?.diagnostics.lost_share ?? null;
-    return html`<tr><th scope="row"><a href="#${runAnchor(r.record.run)}">${r.record.run}</a></th><td><span class="dir dir-${r.record.direction}">${r.record.direction}</span></td><td class="num">${r.record.setting === null ? '—' : `${r.record.setting} ${r.record.setting_unit}`}</td><td>${r.record.status === 'ok' ? 'done' : 'failed'}</td><td>${f?.model ?? '—'}</td><td class="num">${fr?.deg_s ?? '—'}</td><td class="num">${fr?.rpm ?? '—'}</td><td class="num">${lost === null ? '—' : `${(100 * lost).toFixed(1)}%`}</td></tr>`;
+    return html`<tr><th scope="row"><a href="#${runAnchor(r.record.run)}">${r.record.run}</a></th><td><span class="dir dir-${r.record.direction}">${r.record.direction}</span></td><td class="num">${r.record.setting === null ? '—' : `${r.record.setting} ${r.record.setting_unit}`}</td><td>${r.record.status === 'ok' ? 'done' : 'failed'}</td><td>${f ? modelLabel(f.model) : '—'}</td><td class="num">${fr?.deg_s ?? '—'}</td><td class="num">${fr?.rpm ?? '—'}</td><td class="num">${lost === null ? '—' : `${formatFixed(100 * lost, 1)}%`}</td></tr>`;
   });
 
-  const runSections: SafeHtml[] = [];
-  for (const r of data.runs) runSections.push(await renderRunSection(r, { report_dir: reportDir, buckets: options.buckets }));
 
   const marginText = summary.margin_deg_s === null ? 'No equivalence margin was given, so "equivalent to zero" is not tested.' : `Equivalence margin ±${summary.margin_deg_s} deg/s (${summary.margin_source}).`;
   const doc = html`<!DOCTYPE html>

@@ -2,7 +2,7 @@ import { relative, sep } from 'node:path';
 import type { FitReport } from '../fit/FitReport.js';
 import type { ChartSpec } from './ChartSpec.js';
 import { escapeHtml, html, trusted, type SafeHtml } from './escapeHtml.js';
-import { formatInterval, formatP, formatRate, formatSig } from './formatQuantity.js';
+import { formatFixed, formatInterval, formatP, formatRate, formatSig, modelLabel } from './formatQuantity.js';
 import { previewDataUri } from './previewDataUri.js';
 import { qualityNotes } from './qualityNotes.js';
 import { renderChart } from './renderChart.js';
@@ -35,7 +35,8 @@ function estimateRow(name: string, e: { value: number; se: number; ci: [number, 
 function resultTable(fit: FitReport): SafeHtml {
   const rows: SafeHtml[] = [];
   const level = Math.round(100 * (fit.steady?.rate_deg_s.level ?? fit.spinup?.terminal_rate_deg_s.level ?? fit.spindown?.initial_rate_deg_s.level ?? 0.95));
-  if (fit.steady) {
+  // only the chosen model's numbers: fit.json may also carry the candidates that were not chosen
+  if (fit.model === 'steady' && fit.steady) {
     const s = fit.steady;
     const r = formatRate(s.rate_deg_s.value, s.rate_deg_s.ci, s.rate_deg_s.se);
     rows.push(html`<tr><th scope="row">Steady rate</th><td class="num">${r.deg_s}</td><td>deg/s</td></tr>`);
@@ -44,31 +45,42 @@ function resultTable(fit: FitReport): SafeHtml {
     if (s.zero_test.margin_deg_s !== undefined) rows.push(html`<tr><th scope="row">Equivalent to zero (±${formatSig(s.zero_test.margin_deg_s)} deg/s)</th><td class="num">${s.zero_test.equivalent_to_zero ? 'yes' : 'no'}, p ${pText(s.zero_test.equivalence_p_value ?? Number.NaN)}</td><td>two one-sided tests</td></tr>`);
     rows.push(html`<tr><th scope="row">Smallest detectable rate</th><td class="num">${formatSig(s.min_detectable_deg_s, 2)} (${formatSig(s.min_detectable_deg_s / 6, 2)} rpm)</td><td>deg/s, 80% power</td></tr>`);
   }
-  if (fit.spinup) {
+  if (fit.model === 'spinup' && fit.spinup) {
     const u = fit.spinup;
     rows.push(estimateRow('Terminal rate', u.terminal_rate_deg_s, 'deg/s'));
     rows.push(estimateRow('Terminal rate', u.terminal_rate_rpm, 'rpm'));
     rows.push(estimateRow('Time constant τ', u.tau_s, 's'));
     rows.push(estimateRow('Onset', u.onset_s, 's'));
   }
-  if (fit.spindown) {
+  if (fit.model === 'spindown' && fit.spindown) {
     const d = fit.spindown;
     rows.push(estimateRow('Initial rate', d.initial_rate_deg_s, 'deg/s'));
     rows.push(estimateRow('Initial rate', d.initial_rate_rpm, 'rpm'));
     rows.push(estimateRow('Dry (Coulomb) deceleration', d.coulomb_deg_s2, 'deg/s²'));
     rows.push(estimateRow('Viscous decay rate', d.viscous_per_s, '1/s'));
-    rows.push(html`<tr><th scope="row">Stops at</th><td class="num">${d.stop_s === null ? 'not within the window' : d.stop_s.toFixed(2)}</td><td>${d.stop_s === null ? '' : 's'}</td></tr>`);
+    rows.push(html`<tr><th scope="row">Stops at</th><td class="num">${d.stop_s === null ? 'not within the window' : formatFixed(d.stop_s, 2)}</td><td>${d.stop_s === null ? '' : 's'}</td></tr>`);
   }
-  return html`<table class="result"><caption>Fit: ${fit.model} model, window ${fit.window_s[0].toFixed(2)}–${fit.window_s[1].toFixed(2)} s, ${fit.n} frames (${level}% intervals)</caption>
+  return html`<table class="result"><caption>Fit: ${modelLabel(fit.model)} model, window ${formatFixed(fit.window_s[0], 2)}–${formatFixed(fit.window_s[1], 2)} s, ${fit.n} frames (${level}% intervals)</caption>
 <thead><tr><th scope="col">Quantity</th><th scope="col">Value [interval]</th><th scope="col">Unit</th></tr></thead><tbody>${rows}</tbody></table>
-<p class="meta">Method: ${fit.method}${fit.selection ? ` Model chosen by: ${fit.selection.rule}` : ''}</p>`;
+<p class="meta">Method: ${fit.method}${fit.selection && !fit.method.includes(fit.selection.rule) ? ` Model chosen by: ${fit.selection.rule}` : ''}</p>`;
+}
+
+/** Settings groups as dotted keys (track.centre, fit.model), one level deep; null shown as "default". */
+function flattenSettings(settings: Record<string, unknown>, prefix = ''): [string, string][] {
+  const rows: [string, string][] = [];
+  for (const [k, v] of Object.entries(settings)) {
+    const key = prefix ? `${prefix}.${k}` : k;
+    if (v !== null && typeof v === 'object' && !Array.isArray(v) && prefix === '') rows.push(...flattenSettings(v as Record<string, unknown>, key));
+    else rows.push([key, v === null ? 'default' : typeof v === 'string' ? v : JSON.stringify(v)]);
+  }
+  return rows;
 }
 
 function settingsTable(settings: Record<string, unknown>): SafeHtml {
-  const keys = Object.keys(settings).sort();
-  if (keys.length === 0) return html`<p>No settings recorded.</p>`;
+  const rows = flattenSettings(settings ?? {}).sort((a, b) => (a[0] < b[0] ? -1 : 1));
+  if (rows.length === 0) return html`<p>No settings recorded.</p>`;
   return html`<table class="settings"><caption>Settings used</caption><thead><tr><th scope="col">Setting</th><th scope="col">Value</th></tr></thead>
-<tbody>${keys.map((k) => html`<tr><th scope="row"><code>${k}</code></th><td><code>${typeof settings[k] === 'string' ? (settings[k] as string) : JSON.stringify(settings[k])}</code></td></tr>`)}</tbody></table>`;
+<tbody>${rows.map(([k, v]) => html`<tr><th scope="row"><code>${k}</code></th><td><code>${v}</code></td></tr>`)}</tbody></table>`;
 }
 
 export interface RunSectionOptions {
@@ -94,7 +106,7 @@ ${r.notes ? html`<p>Notes: ${r.notes}</p>` : ''}
 ${r.status === 'failed' ? html`<p><strong>This run failed:</strong> ${r.error ?? 'no reason recorded'}</p>` : ''}
 ${run.fit ? resultTable(run.fit) : ''}
 ${links.length > 0 ? html`<p class="files">Files: ${links}</p>` : ''}
-${preview ? html`<figure class="preview"><h4>Preview frame</h4><img src="${preview.uri}" width="${preview.width}" height="${preview.height}" alt="Preview frame of run ${r.run} with the tracked marker"><figcaption>A frame of the video as tracked${preview.width < (run.track?.input.width ?? 0) ? `, shrunk to ${preview.width} × ${preview.height} px` : ''}.</figcaption></figure>` : ''}
+${preview ? html`<figure class="preview"><h4>Preview frame</h4><img src="${preview.uri}" width="${preview.width}" height="${preview.height}" alt="Preview frame of run ${r.run} with the tracked marker"><figcaption>A frame of the video as tracked${preview.width < preview.original_width ? `, shrunk from ${preview.original_width} px wide to ${preview.width} × ${preview.height} px` : ''}.</figcaption></figure>` : ''}
 ${figures.length > 0 ? html`<div class="charts">${figures}</div>` : ''}
 <h4>Data quality</h4>
 ${notes.length === 0 ? html`<p class="ok-note">No data-quality flags.</p>` : html`<dl class="flags">${notes.map((n) => html`<dt>${n.label}</dt><dd>${n.words}</dd>`)}</dl>`}

@@ -1,5 +1,6 @@
 import type { TopLevelSpec } from 'vega-lite';
 import type { ChartSpec } from './ChartSpec.js';
+import { formatFixed, formatSig, modelLabel } from './formatQuantity.js';
 import { modelCurve } from './modelCurve.js';
 import { PALETTE } from './reportStyle.js';
 import type { RunData } from './ReportData.js';
@@ -48,7 +49,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     charts.push({
       id: 'angle',
       title: 'Angle against time with the fitted model',
-      caption: `Thin solid line: tracked angle. ${curve ? `Thick dashed line underneath: fitted ${fit!.model} model. ${curve.how}` : 'No fitted model to draw.'}${fit ? ' Shaded: the fit window.' : ''}${thinNote(angle.t_s.length)}`,
+      caption: `Thin solid line: tracked angle. ${curve ? `Thick dashed line underneath: fitted ${modelLabel(fit!.model)} model. ${curve.how}` : 'No fitted model to draw.'}${fit ? ' Shaded: the fit window.' : ''}${thinNote(angle.t_s.length)}`,
       spec: { ...base, layer: layers } as TopLevelSpec,
     });
     if (curve) {
@@ -61,7 +62,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
       charts.push({
         id: 'residuals',
         title: 'Residuals (tracked minus model)',
-        caption: `Inside the fit window only; RMS ${fit!.diagnostics.residual_rms_deg.toPrecision(3)} deg as reported by the fit.${thinNote(angle.t_s.length)}`,
+        caption: `Inside the fit window only; RMS ${formatSig(fit!.diagnostics.residual_rms_deg, 3)} deg as reported by the fit.${thinNote(angle.t_s.length)}`,
         spec: {
           ...base,
           layer: [
@@ -148,7 +149,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     charts.push({
       id: 'path',
       title: 'Marker path, fitted ellipse and centre',
-      caption: `Dots: marker positions (a sample, full-frame pixels, y down as in the video). ${track.view ? `Line: fitted ellipse (axis ratio ${track.view.axis_ratio.toFixed(3)}). ` : ''}Cross: centre (${track.centre.source === 'given' ? 'given' : 'fitted'}, ${cx.toFixed(1)}, ${cy.toFixed(1)} px).`,
+      caption: `Dots: marker positions (a sample, full-frame pixels, y down as in the video). ${track.view ? `Line: fitted ellipse (axis ratio ${formatFixed(track.view.axis_ratio, 3)}). ` : ''}Cross: centre (${track.centre.source === 'given' ? 'given' : 'fitted'}, ${formatFixed(cx, 1)}, ${formatFixed(cy, 1)} px).`,
       spec: {
         $schema: SCHEMA,
         width: side,

@@ -1,20 +1,7 @@
 /**
- * Sum of a typed array with Neumaier's compensated summation (Neumaier 1974, an improved Kahan sum):
+ * Sum of squares Σ v² with Neumaier's compensated summation (Neumaier 1974, an improved Kahan sum):
  * the rounding error of each addition is carried along, so hour-long series sum to full precision.
  */
-export function compensatedSum(values: ArrayLike<number>, start = 0, end = values.length): number {
-  let sum = 0;
-  let carry = 0;
-  for (let i = start; i < end; i++) {
-    const v = values[i]!;
-    const s = sum + v;
-    carry += Math.abs(sum) >= Math.abs(v) ? sum - s + v : v - s + sum;
-    sum = s;
-  }
-  return sum + carry;
-}
-
-/** Sum of squares Σ v², compensated (Neumaier) as in compensatedSum. */
 export function compensatedSumOfSquares(values: ArrayLike<number>, start = 0, end = values.length): number {
   let sum = 0;
   let carry = 0;

@@ -38,15 +38,36 @@ export function localPolynomialAt(
   const ti = t_s[i]!;
   const yi = y[i]!;
   const inv = 1 / halfWidth_s;
-  for (let j = lo; j <= hi; j++) {
-    if (j >= i - hole && j <= i + hole) continue;
-    const u = (t_s[j]! - ti) * inv;
-    const dy = y[j]! - yi;
-    let pw = 1;
-    for (let k = 0; k < moments.length; k++) {
-      moments[k]! += pw;
-      if (k < p) rhs[k]! += pw * dy;
-      pw *= u;
+  if (order === 2) {
+    // unrolled for the common local quadratic
+    let m0 = 0, m1 = 0, m2 = 0, m3 = 0, m4 = 0, r0 = 0, r1 = 0, r2 = 0;
+    for (let j = lo; j <= hi; j++) {
+      if (j >= i - hole && j <= i + hole) continue;
+      const u = (t_s[j]! - ti) * inv;
+      const u2 = u * u;
+      const dy = y[j]! - yi;
+      m0 += 1;
+      m1 += u;
+      m2 += u2;
+      m3 += u2 * u;
+      m4 += u2 * u2;
+      r0 += dy;
+      r1 += u * dy;
+      r2 += u2 * dy;
+    }
+    moments.set([m0, m1, m2, m3, m4]);
+    rhs.set([r0, r1, r2]);
+  } else {
+    for (let j = lo; j <= hi; j++) {
+      if (j >= i - hole && j <= i + hole) continue;
+      const u = (t_s[j]! - ti) * inv;
+      const dy = y[j]! - yi;
+      let pw = 1;
+      for (let k = 0; k < moments.length; k++) {
+        moments[k]! += pw;
+        if (k < p) rhs[k]! += pw * dy;
+        pw *= u;
+      }
     }
   }
   const gram = new Float64Array(p * p);

@@ -58,7 +58,8 @@ export function longRunVarianceRatio(x: ArrayLike<number>): number {
   if (n < 3) return 1;
   let mean = 0;
   for (let i = 0; i < n; i++) mean += (x[i]! - mean) / (i + 1);
-  const d = Float64Array.from({ length: n }, (_, i) => x[i]! - mean);
+  const d = new Float64Array(n);
+  for (let i = 0; i < n; i++) d[i] = x[i]! - mean;
   let c0 = 0;
   for (const v of d) c0 += v * v;
   if (!(c0 > 0)) return 1;

@@ -2,6 +2,7 @@ import jstatModule from 'jstat';
 import { localPolynomialAt, windowAround, type LocalPolynomialPoint } from './localPolynomialFit.js';
 import { autocorrelation, longRunVarianceRatio } from './longRunVariance.js';
 import { InputError } from '../errors.js';
+import { medianInterval } from './medianInterval.js';
 
 const { jStat } = jstatModule;
 
@@ -38,10 +39,10 @@ export interface SmoothedRate {
 const CV_POINTS = 4000;
 const DIAGNOSTIC_BLOCK = 2000;
 
-/** Indices at which residual diagnostics are computed: all samples, or 10 contiguous blocks spread across a long series. */
+/** Indices at which residual diagnostics are computed: all samples, or 5 contiguous blocks of 2000 spread across a long series. */
 function diagnosticIndices(n: number, maxRows: number): Int32Array {
   if (n <= maxRows) return Int32Array.from({ length: n }, (_, i) => i);
-  const blocks = 10;
+  const blocks = 5;
   const out: number[] = [];
   for (let b = 0; b < blocks; b++) {
     const start = Math.floor(((n - DIAGNOSTIC_BLOCK) * b) / (blocks - 1));
@@ -111,9 +112,7 @@ export function smoothRate(t_s: Float64Array, angle_deg: Float64Array, options: 
   const maxRows = Math.max(10, options.maxRows ?? 20000);
   const n = t_s.length;
   if (n < order + 2) throw new InputError(`smoothing a rate needs at least ${order + 2} samples, got ${n}`);
-  const intervals = new Float64Array(n - 1);
-  for (let i = 1; i < n; i++) intervals[i - 1] = t_s[i]! - t_s[i - 1]!;
-  const delta = Float64Array.from(intervals).sort()[Math.floor((n - 1) / 2)]!;
+  const delta = medianInterval(t_s);
   const diag = diagnosticIndices(n, maxRows);
 
   let h: number;
@@ -128,10 +127,11 @@ export function smoothRate(t_s: Float64Array, angle_deg: Float64Array, options: 
     const cvIdx = diag.filter((_, k) => k % strideCv === 0);
     const hMax = Math.max((order + 1) * delta, Math.min(250 * delta, (t_s[n - 1]! - t_s[0]!) / 4));
     // pilot: residual correlation length of the widest window sets the hole of the h-block CV
-    const pilot = evaluate(t_s, angle_deg, diag, hMax, order);
+    const pilotIdx = diag.length > 2 * DIAGNOSTIC_BLOCK ? diag.slice(0, 2 * DIAGNOSTIC_BLOCK) : diag;
+    const pilot = evaluate(t_s, angle_deg, pilotIdx, hMax, order);
     const pilotRes: number[] = [];
     pilot.forEach((f, k) => {
-      if (f) pilotRes.push(angle_deg[diag[k]!]! - f.value);
+      if (f) pilotRes.push(angle_deg[pilotIdx[k]!]! - f.value);
     });
     hole = correlationLength(pilotRes);
     let best = Infinity;

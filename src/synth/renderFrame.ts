@@ -232,15 +232,18 @@ export function renderFrame(spec: SynthSpec | SynthSpecInput, t_s: number, index
 
   const particleLevel = new Array<number>(ch).fill(s.realism.particles.level);
   for (const particle of p.particles) {
-    const centres = new Float64Array(2 * subTimes.length);
-    subTimes.forEach((t, n) => {
+    // a particle's own smear: sub-samples at most 0.5 px apart along its path during the exposure
+    const travel_px = Math.hypot(particle.vx_px_s, particle.vy_px_s) * exposure;
+    const particleTimes = exposureTimes(t_s, exposure, Math.min(MAX_BLUR_SAMPLES, Math.max(1, Math.ceil(travel_px / 0.5))));
+    const centres = new Float64Array(2 * particleTimes.length);
+    particleTimes.forEach((t, n) => {
       const c = particleAt(particle, t);
       centres[2 * n] = c.x;
       centres[2 * n + 1] = c.y;
     });
     const box = boxOfDiscs(sceneToImg, centres, particle.radius_px, w, h);
     if (!box) continue;
-    blendCoverage(layer, w, ch, discCoverage(imgToScene, centres, particle.radius_px, box, supersample === 16 ? 8 : 4), particleLevel);
+    blendCoverage(layer, w, ch, discCoverage(imgToScene, centres, particle.radius_px, box, particleTimes.length === 1 ? 8 : 4), particleLevel);
   }
 
   const markers: SynthMarkerTruth[] = s.markers.map((marker) => {

@@ -11,8 +11,9 @@ export function noisyBytes(layer: Float32Array, gain: number, sigma: number, see
   const out = new Uint8Array(layer.length);
   if (sigma <= 0) {
     for (let i = 0; i < layer.length; i++) {
-      const v = gain * layer[i];
-      out[i] = v <= 0 ? 0 : v >= 255 ? 255 : Math.round(v);
+      const v = gain * layer[i] + 0.5;
+      // floor(v + ½) rounds half up, like Math.round, for the positive values that reach it
+      out[i] = v <= 0.5 ? 0 : v >= 255 ? 255 : v | 0;
     }
     return out;
   }
@@ -25,16 +26,17 @@ export function noisyBytes(layer: Float32Array, gain: number, sigma: number, see
   for (let i = 0; i < layer.length; i++) {
     let t = x ^ (x << 11);
     x = y; y = z; z = w;
-    w = w ^ (w >>> 19) ^ (t ^ (t >>> 8));
+    w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) | 0;
     const a = w;
     t = x ^ (x << 11);
     x = y; y = z; z = w;
-    w = w ^ (w >>> 19) ^ (t ^ (t >>> 8));
+    w = (w ^ (w >>> 19) ^ (t ^ (t >>> 8))) | 0;
     const b = w;
-    const sum = (a & 255) + ((a >>> 8) & 255) + ((a >>> 16) & 255) + ((a >>> 24) & 255)
-      + (b & 255) + ((b >>> 8) & 255) + ((b >>> 16) & 255) + ((b >>> 24) & 255);
-    const v = gain * layer[i] + (sum - mean) * scale;
-    out[i] = v <= 0 ? 0 : v >= 255 ? 255 : Math.round(v);
+    // sum of the eight bytes, two 16-bit lanes at a time (each lane ≤ 4·255, no overflow)
+    const lanes = (a & 0x00ff00ff) + ((a >>> 8) & 0x00ff00ff) + (b & 0x00ff00ff) + ((b >>> 8) & 0x00ff00ff);
+    const sum = (lanes & 0xffff) + (lanes >>> 16);
+    const v = gain * layer[i] + (sum - mean) * scale + 0.5;
+    out[i] = v <= 0.5 ? 0 : v >= 255 ? 255 : v | 0;
   }
   return out;
 }

@@ -28,6 +28,8 @@ export interface TrackSummary {
   frames: { decoded: number; lost: number; lost_by_reason: Record<string, number> };
   /** Where a gap was too long to unwrap safely: the series is split, angles after it restart their count. */
   splits: { after_frame: number; t_s: number; gap_s: number }[];
+  /** How well the marker path fits the ellipse: RMS distance of kept points, px, and points rejected as off the path (absent when no fit was made). */
+  path_fit?: { rms_px: number; rejected: number };
   /** Marker path samples for the report (thinned), full-frame px. */
   path_sample: PointPx[];
   warnings: string[];

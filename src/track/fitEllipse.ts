@@ -136,6 +136,7 @@ export function fitCentredEllipse(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
  * Throws EllipseFitFailure when the conic is not a real ellipse.
  */
 export function conicToEllipse(A: number, B: number, C: number, D: number, E: number, F: number): Ellipse {
+  if (A + C < 0) return conicToEllipse(-A, -B, -C, -D, -E, -F);
   const det = 4 * A * C - B * B;
   if (!(det > 0)) throw new EllipseFitFailure('the conic is not an ellipse');
   const cx = (B * E - 2 * C * D) / det;

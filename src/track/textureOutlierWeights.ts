@@ -1,7 +1,7 @@
 /**
  * Robust weights for a polar image compared with a reference turned by shift_bins: residuals
- * e = cur − mean_r(cur) − g·(ref(θ − shift) − mean_r(ref)) per sample (linear interpolation along the angle,
- * one gain g over the image), scaled by 1.4826 × their median absolute value (but at least 3/4 of the
+ * e = cur − median_r(cur) − g·(ref(θ − shift) − median_r(ref)) per sample (row medians; linear
+ * interpolation along the angle; one gain g over the image, refitted once without the first outliers), scaled by 1.4826 × their median absolute value (but at least 3/4 of the
  * texture's own standard deviation), and weighted with Tukey's
  * biweight, w = (1 − (e / (c·σ))²)² inside c·σ, 0 outside (c = 4.685; Huber & Ronchetti, Robust
  * Statistics, 2009 — cited from memory). Samples covered by something that does not turn with the hub
@@ -15,14 +15,9 @@ export function outlierWeights(cur: Float64Array, ref: Float64Array, rows: numbe
   const frac = shift_bins - whole;
   for (let r = 0; r < rows; r++) {
     const base = r * bins;
-    let meanCur = 0;
-    let meanRef = 0;
-    for (let j = 0; j < bins; j++) {
-      meanCur += cur[base + j];
-      meanRef += ref[base + j];
-    }
-    meanCur /= bins;
-    meanRef /= bins;
+    // Row medians, not means: a bubble must not shift its whole row.
+    const meanCur = median(cur.subarray(base, base + bins));
+    const meanRef = median(ref.subarray(base, base + bins));
     for (let j = 0; j < bins; j++) {
       // ref(θ − s) at bin j: between bins j − whole − 1 and j − whole.
       const a = ref[base + ((((j - whole) % bins) + bins) % bins)];
@@ -31,30 +26,52 @@ export function outlierWeights(cur: Float64Array, ref: Float64Array, rows: numbe
       centred[base + j] = cur[base + j] - meanCur;
     }
   }
-  let sxy = 0;
-  let sxx = 0;
-  for (let i = 0; i < n; i++) {
-    sxy += shifted[i] * centred[i];
-    sxx += shifted[i] * shifted[i];
-  }
-  const gain = sxx > 0 ? sxy / sxx : 0;
+  // One gain over the image, fitted twice: plainly, then with the outliers of the first fit left out.
+  const fitGain = (weights: Float64Array | null): number => {
+    let sxy = 0;
+    let sxx = 0;
+    for (let i = 0; i < n; i++) {
+      const w = weights ? weights[i] : 1;
+      sxy += w * shifted[i] * centred[i];
+      sxx += w * shifted[i] * shifted[i];
+    }
+    return sxx > 0 ? sxy / sxx : 0;
+  };
+  const first = tukey(centred, shifted, fitGain(null), tuning);
+  return erode(tukey(centred, shifted, fitGain(first), tuning), rows, bins);
+}
+
+/** Median of an array (a copy is sorted). */
+function median(values: Float64Array): number {
+  const sorted = Float64Array.from(values).sort();
+  const n = sorted.length;
+  return n % 2 ? sorted[(n - 1) / 2] : 0.5 * (sorted[n / 2 - 1] + sorted[n / 2]);
+}
+
+/** Tukey biweights of the residuals centred − gain·shifted. */
+function tukey(centred: Float64Array, shifted: Float64Array, gain: number, tuning: number): Float64Array {
+  const n = centred.length;
   const residual = new Float64Array(n);
   for (let i = 0; i < n; i++) residual[i] = Math.abs(centred[i] - gain * shifted[i]);
-  const sorted = Float64Array.from(residual).sort();
-  const median = n % 2 ? sorted[(n - 1) / 2] : 0.5 * (sorted[n / 2 - 1] + sorted[n / 2]);
+  const mad = median(residual);
   // Never call a sample an outlier for less than 3/4 of the texture's own spread: a slightly wrong shift leaves
   // residuals on every edge of the texture, and masking those would pull the shift further off.
   let spread = 0;
   for (let i = 0; i < n; i++) spread += centred[i] * centred[i];
   spread = Math.sqrt(spread / n);
-  const limit = Math.max(tuning * 1.4826 * median, 0.75 * spread);
+  const limit = Math.max(tuning * 1.4826 * mad, 0.75 * spread);
   const weights = new Float64Array(n);
   if (!(limit > 0)) return weights.fill(1);
   for (let i = 0; i < n; i++) {
     const z = residual[i] / limit;
     weights[i] = z < 1 ? (1 - z * z) ** 2 : 0;
   }
-  // Spread each low weight to its 3×3 neighbours (angle wraps round), so the soft rim of a bubble goes too.
+  return weights;
+}
+
+/** Spreads each low weight to its 3×3 neighbours (angle wraps round), so the soft rim of a bubble goes too. */
+function erode(weights: Float64Array, rows: number, bins: number): Float64Array {
+  const n = weights.length;
   const eroded = new Float64Array(n);
   for (let r = 0; r < rows; r++) {
     for (let j = 0; j < bins; j++) {

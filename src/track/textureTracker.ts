@@ -23,7 +23,7 @@ export interface TextureTrackerOptions {
   robust_below?: number;
   /** Successive frames below refresh_below before the current frame becomes a new reference (a passing bubble should not). Default 5. */
   refresh_after_frames?: number;
-  /** Correlation under which a frame is reported lost (NaN, quality 0). Default 0.7. */
+  /** Correlation under which a frame is reported lost (NaN, quality 0). Default 0.6. */
   min_quality?: number;
   /** Largest change of angle between two successive frames beyond the constant-rate prediction, deg. Default 90. */
   max_step_deg?: number;
@@ -121,7 +121,7 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
   const degPerBin = 360 / bins;
   const refreshDeg = options.reference_refresh_deg ?? Infinity;
   const refreshBelow = options.refresh_below ?? 0.8;
-  const minQuality = options.min_quality ?? 0.7;
+  const minQuality = options.min_quality ?? 0.6;
   const robustBelow = options.robust_below ?? 0.995;
   const rows = grid.radii_px.length;
   const refreshAfter = Math.max(1, Math.round(options.refresh_after_frames ?? 5));
@@ -145,14 +145,15 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
   let framesSinceGood = 0;
   let framesBelow = 0;
 
-  const measure = (ref: Reference, cur: Unwrapped, predicted_deg: number): { angle_deg: number; quality: number } => {
+  const measure = (ref: Reference, cur: Unwrapped, predicted_deg: number): { angle_deg: number; quality: number; masked_share: number } => {
     const predictedShift = wrapDeg(predicted_deg - ref.angle_deg);
     const est = estimator.estimate(ref.spectra, cur.spectra, {
       predicted_bins: predictedShift / degPerBin,
       window_bins: maxStepDeg / degPerBin,
     });
-    if (!Number.isFinite(est.shift_bins)) return { angle_deg: Number.NaN, quality: 0 };
+    if (!Number.isFinite(est.shift_bins)) return { angle_deg: Number.NaN, quality: 0, masked_share: 1 };
     let shift = est.shift_bins;
+    let masked = 0;
     if (est.correlation < robustBelow && est.correlation >= minQuality) {
       // Mask what does not turn with the hub (Tukey weights on the residual) and measure again, twice.
       for (let pass = 0; pass < 5; pass++) {
@@ -162,12 +163,13 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
         const again = estimator.estimate(refMasked, curMasked, { predicted_bins: shift, window_bins: 2 });
         if (!Number.isFinite(again.shift_bins) || again.correlation < est.correlation) break;
         shift = again.shift_bins;
+        masked = w.reduce((n, v) => n + (v < 0.5 ? 1 : 0), 0) / w.length;
       }
     }
     const shiftDeg = shift * degPerBin;
     // Choose the turn count that puts the reading nearest the prediction.
     const turns = Math.round((predicted_deg - ref.angle_deg - shiftDeg) / 360);
-    return { angle_deg: ref.angle_deg + shiftDeg + 360 * turns, quality: Math.max(0, est.correlation) };
+    return { angle_deg: ref.angle_deg + shiftDeg + 360 * turns, quality: Math.max(0, est.correlation), masked_share: masked };
   };
 
   const addReference = (frame: Unwrapped, angle_deg: number): void => {
@@ -257,14 +259,15 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
         }
       }
       framesBelow = best.quality < refreshBelow ? framesBelow + 1 : 0;
-      if (framesBelow >= refreshAfter || Math.abs(best.angle_deg - references[active].angle_deg) > refreshDeg) {
+      // A frame with part of the ring masked (a bubble on it) never becomes a reference.
+      if ((framesBelow >= refreshAfter && best.masked_share < 0.02) || Math.abs(best.angle_deg - references[active].angle_deg) > refreshDeg) {
         addReference(current, best.angle_deg);
         framesBelow = 0;
       }
       lastStep = (best.angle_deg - lastAngle) / framesSinceGood;
       lastAngle = best.angle_deg;
       framesSinceGood = 0;
-      return best;
+      return { angle_deg: best.angle_deg, quality: best.quality };
     },
   };
 }

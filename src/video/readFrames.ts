@@ -54,8 +54,10 @@ export function checkRoi(roi: RoiPx, width: number, height: number, file: string
  * One ffmpeg process decodes, rotates for display, crops to the ROI and converts to gray or RGB;
  * its stdout is read with backpressure (a slow consumer pauses ffmpeg, memory stays flat).
  * Per-frame times come from ffmpeg's showinfo filter on stderr, in the same process as the pixels,
- * so times and frames cannot drift apart (frames pass through with `-vsync passthrough`, or
- * `-fps_mode passthrough` on newer ffmpeg: nothing duplicated or dropped). Timestamps are kept as
+ * so times and frames cannot drift apart, even after a seek or where an edit list hides frames (a
+ * second ffprobe process listing packets would have to guess which frames ffmpeg outputs after a
+ * seek). Frames pass through with `-vsync passthrough`, or
+ * `-fps_mode passthrough` on newer ffmpeg: nothing duplicated or dropped. Timestamps are kept as
  * stored (-copyts): t_s is the presentation time ffprobe reports for the same frame.
  * Breaking out of the loop or aborting the signal kills ffmpeg; failures are FfmpegError with the stderr tail.
  */
@@ -72,19 +74,21 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
   const channels = pixels === 'gray' ? 1 : 3;
   const frameBytes = roi.w * roi.h * channels;
 
-  const filters = [
+  // The frames go to stdout; a split-off 1×1 crop of each (no pixel copy) feeds showinfo, whose
+  // per-frame line carries the presentation time at negligible cost (no checksum of the real frame).
+  const chain = [
     ...(options.roi ? [`crop=${roi.w}:${roi.h}:${roi.x}:${roi.y}:exact=1`] : []),
     `format=${pixels === 'gray' ? 'gray' : 'rgb24'}`,
     'settb=AVTB',
-    'showinfo',
+    'split[frames][times]',
   ];
+  const graph = `[0:${header.stream_index}]${chain.join(',')};[times]crop=1:1:0:0,showinfo,nullsink`;
   const seek_s = Number.isFinite(from_s) ? from_s - header.start_s - 0.002 : 0;
   const args = [
     '-hide_banner', '-nostats', '-nostdin', '-loglevel', 'info', '-copyts',
     ...(seek_s > 0 ? ['-ss', seek_s.toFixed(6)] : []),
     '-i', path,
-    '-map', `0:${header.stream_index}`, '-an', '-sn', '-dn',
-    '-vf', filters.join(','),
+    '-filter_complex', graph, '-map', '[frames]', '-an', '-sn', '-dn',
     ...ffmpeg.passthroughArgs,
     '-f', 'rawvideo', '-pix_fmt', pixels === 'gray' ? 'gray' : 'rgb24', 'pipe:1',
   ];
@@ -123,6 +127,7 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
         at += n;
         if (filled < frameBytes) continue;
         const t_s = await nextTime();
+        if (t_s === undefined && options.signal?.aborted) options.signal.throwIfAborted();
         if (t_s === undefined || Number.isNaN(t_s)) {
           throw new FfmpegError(`ffmpeg gave no presentation time for frame ${decoded} of ${path}; the file's timestamps may be damaged.`, { file: path, exitCode: null, stderrTail: '' });
         }

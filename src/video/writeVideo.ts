@@ -86,7 +86,8 @@ export async function writeVideo(path: string, frames: Iterable<VideoFrameIn> | 
     ? (gray ? ['-c:v', 'libx264', '-qp', '0', '-preset', 'ultrafast', '-pix_fmt', 'gray', '-color_range', 'jpeg']
       : ['-c:v', 'libx264rgb', '-qp', '0', '-preset', 'ultrafast', '-pix_fmt', 'rgb24'])
     : ['-c:v', 'libx264', '-crf', String(quality.crf), '-preset', options.preset ?? 'veryfast',
-      '-pix_fmt', width % 2 === 0 && height % 2 === 0 ? 'yuv420p' : 'yuv444p', ...(gray ? ['-color_range', 'jpeg'] : [])];
+      // gray goes to full-range luma (yuvj…) so 0 and 255 come back as 0 and 255, not 16 and 235
+      '-pix_fmt', `${gray ? 'yuvj' : 'yuv'}${width % 2 === 0 && height % 2 === 0 ? '420p' : '444p'}`];
   const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
   const args = [
     '-hide_banner', '-nostats', '-loglevel', 'error',

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { loadReportData } from '../../src/report/loadReportData.js';
@@ -103,6 +103,35 @@ describe('renderReport on a folder with no finished runs', () => {
       expect(h).toContain('No run has a rate to compare yet.');
       expect(h).toContain('No frames could be decoded; check the video plays.');
       expect(h.match(/<figure class="chart"/g)).toBeNull();
+    } finally {
+      await rm(d, { recursive: true, force: true });
+    }
+  });
+});
+
+describe('renderReport with incomplete run files', () => {
+  it('renders runs whose fit and track files lack numbers (null where a value could not be computed)', async () => {
+    const d = await mkdtemp(join(tmpdir(), 'revtrace-report-nulls-'));
+    try {
+      await writeTestBatch(d, [
+        { run: 'f', direction: 'forward', setting: 1, rate_deg_s: 40 },
+        { run: 'r', direction: 'reverse', setting: 1, rate_deg_s: -1 },
+      ]);
+      const fitPath = join(d, 'runs', 'r', 'fit.json');
+      const fit = JSON.parse(await readFile(fitPath, 'utf8'));
+      fit.steady.rate_deg_s.se = null;
+      fit.steady.rate_deg_s.ci = null;
+      fit.diagnostics.residual_rms_deg = null;
+      await writeFile(fitPath, JSON.stringify(fit));
+      const trackPath = join(d, 'runs', 'r', 'track.json');
+      const track = JSON.parse(await readFile(trackPath, 'utf8'));
+      track.view.axis_ratio = null;
+      track.view.tilt_deg = null;
+      await writeFile(trackPath, JSON.stringify(track));
+      const h = await renderReport(await loadReportData(d));
+      expect(h).toMatch(/Run <a href="#run-r">r<\/a> is not in the comparison/);
+      expect(h).toContain('id="run-r"');
+      expect(h).toContain('−1.000 [—, —]');
     } finally {
       await rm(d, { recursive: true, force: true });
     }

@@ -1,4 +1,9 @@
-import { describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { renderClip } from '../../src/synth/renderClip.js';
+import { trackVideo } from '../../src/track/trackVideo.js';
 import { renderFrame } from '../../src/synth/renderFrame.js';
 import { resolveSynthSpec, type SynthSpec, type SynthSpecInput } from '../../src/synth/SynthSpec.js';
 import { frameTimes } from '../../src/synth/frameTimes.js';
@@ -70,5 +75,41 @@ describe('texture tracking on synthetic frames (in memory)', () => {
     expect(rms(errors)).toBeLessThan(0.1);
     expect(rms(uncorrected.filter(Number.isFinite))).toBeGreaterThan(rms(errors));
     console.log(`texture + anchor (synth, shaken, in memory): RMS ${rms(errors).toFixed(4)}° (texture alone ${rms(uncorrected.filter(Number.isFinite)).toFixed(3)}°)`);
+  });
+});
+
+describe('texture tracking end to end through trackVideo (x264-compressed clips)', () => {
+  let dir: string;
+  beforeAll(async () => {
+    dir = await mkdtemp(join(tmpdir(), 'revtrace-textureacc-'));
+  });
+  afterAll(async () => {
+    await rm(dir, { recursive: true, force: true });
+  });
+  const errorsOf = (r: Awaited<ReturnType<typeof trackVideo>>, truth: Float64Array) => {
+    // Texture mode counts from 0 at the first frame.
+    const e = Array.from(r.series.angle_deg, (a, i) => a - (truth[r.series.frame[i]] - truth[r.series.frame[0]])).filter(Number.isFinite);
+    return { e, lost: r.series.angle_deg.length - e.length };
+  };
+
+  it('--marker texture on a hub with no marker: RMS error ≤ 0.1°', async () => {
+    const clip = await renderClip({ ...textured, seed: 35, realism: { ...textured.realism, noise_sigma: 1, crf: 18 } }, join(dir, 'texture.mp4'));
+    const r = await trackVideo(clip.videoPath, { marker: 'texture', centre: { x: clip.spec.hub.cx_px + 0.6, y: clip.spec.hub.cy_px - 0.4 } });
+    const { e, lost } = errorsOf(r, clip.truth.angle_deg);
+    expect(lost).toBe(0);
+    expect(rms(e)).toBeLessThan(0.1);
+    console.log(`texture via trackVideo (crf 18): RMS ${rms(e).toFixed(4)}°, centre found ${r.summary.centre.x_px.value.toFixed(2)},${r.summary.centre.y_px.value.toFixed(2)} (true ${clip.spec.hub.cx_px},${clip.spec.hub.cy_px})`);
+  });
+
+  it('--marker texture with --anchor on a clip shaken by ±3 px / ±0.3°: RMS error ≤ 0.1°', async () => {
+    const clip = await renderClip(
+      { ...textured, seed: 36, realism: { ...textured.realism, noise_sigma: 1, crf: 18, shake: { translation_px: 1.5, rotation_deg: 0.15, bandwidth_hz: 2 } } },
+      join(dir, 'texture-shake.mp4'),
+    );
+    const r = await trackVideo(clip.videoPath, { marker: 'texture', centre: { x: clip.spec.hub.cx_px, y: clip.spec.hub.cy_px }, anchor: anchorRegion(clip.spec)! });
+    const { e, lost } = errorsOf(r, clip.truth.angle_deg);
+    expect(lost).toBeLessThanOrEqual(1);
+    expect(rms(e)).toBeLessThan(0.1);
+    console.log(`texture + anchor via trackVideo (crf 18, shaken): RMS ${rms(e).toFixed(4)}°`);
   });
 });

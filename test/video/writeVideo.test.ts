@@ -32,6 +32,20 @@ describe('writeVideo', () => {
     times.forEach((t, i) => expect(Math.abs(t - frames[i]!.t_s)).toBeLessThan(1e-4));
   });
 
+  it('keeps the full 0–255 gray range at crf quality (no squeeze to 16–235)', async () => {
+    // Reference: ffmpeg's own decoder (rawvideo gray output); half-black, half-white frames.
+    const frames = Array.from({ length: 5 }, (_, i) => ({ t_s: i / 30, data: Uint8Array.from({ length: 64 * 48 }, (_, k) => (k % 64 < 32 ? 0 : 255)) }));
+    const file = join(dir, 'range.mp4');
+    await writeVideo(file, frames, { width: 64, height: 48, channels: 1, quality: { crf: 18 } });
+    const decoded = ffmpeg(['-i', file, '-f', 'rawvideo', '-pix_fmt', 'gray', '-']);
+    expect(decoded.length).toBe(5 * 64 * 48);
+    // pixels away from the black/white edge (x = 4 and x = 60 in every row)
+    for (let k = 0; k < decoded.length; k += 64) {
+      expect(decoded[k + 4]).toBeLessThanOrEqual(3);
+      expect(decoded[k + 60]).toBeGreaterThanOrEqual(252);
+    }
+  });
+
   it('gives back the exact gray bytes in lossless mode', async () => {
     // Reference: ffmpeg's own decoder (rawvideo gray output).
     const frames = makeFrames(20, 64, 48, 1);

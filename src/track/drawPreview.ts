@@ -1,0 +1,102 @@
+import type { VideoHeader } from '../video/probeVideo.js';
+import { readFrames } from '../video/readFrames.js';
+import type { RegionPx } from './TrackOptions.js';
+import type { ViewGeometry } from './rotorPlaneAngle.js';
+
+/** An RGB image, row-major, 3 bytes per pixel. */
+export interface PreviewImage {
+  width: number;
+  height: number;
+  rgb: Uint8Array;
+}
+
+export interface PreviewOptions {
+  header: VideoHeader;
+  ffmpeg?: string;
+  ffprobe?: string;
+  from_s?: number;
+  roi: RegionPx;
+  anchor: RegionPx | null;
+  view: ViewGeometry | null;
+  centre: { x_px: number; y_px: number };
+  detections: { x_px: number; y_px: number }[];
+  signal?: AbortSignal;
+}
+
+const YELLOW: [number, number, number] = [255, 210, 0];
+const CYAN: [number, number, number] = [0, 200, 255];
+const GREEN: [number, number, number] = [60, 230, 60];
+const RED: [number, number, number] = [255, 40, 40];
+const MAGENTA: [number, number, number] = [255, 0, 200];
+
+/**
+ * The first frame of the run (full frame, decoded once more), with the region (yellow), the anchor (cyan),
+ * the fitted marker path (green), a sample of detections (magenta) and the centre (red cross) drawn on it.
+ */
+export async function drawPreview(path: string, o: PreviewOptions): Promise<PreviewImage> {
+  let image: PreviewImage | null = null;
+  for await (const frame of readFrames(path, { ffmpeg: o.ffmpeg, ffprobe: o.ffprobe, pixels: 'rgb', from_s: o.from_s, header: o.header, signal: o.signal })) {
+    image = { width: frame.width, height: frame.height, rgb: Uint8Array.from(frame.data) };
+    break;
+  }
+  image ??= { width: o.header.width, height: o.header.height, rgb: new Uint8Array(o.header.width * o.header.height * 3) };
+  markPreview(image, o);
+  return image;
+}
+
+/** Draws the set-up marks onto an RGB image in place. */
+export function markPreview(img: PreviewImage, o: Pick<PreviewOptions, 'roi' | 'anchor' | 'view' | 'centre' | 'detections'>): void {
+  rect(img, o.roi, YELLOW);
+  if (o.anchor) rect(img, o.anchor, CYAN);
+  if (o.view) {
+    const v = o.view;
+    // the path: semi-major taken from the detections' mean distance in the rotor plane
+    let r = 0;
+    for (const d of o.detections) r += Math.hypot(d.x_px - v.cx_px, d.y_px - v.cy_px);
+    r = o.detections.length ? r / o.detections.length : 0;
+    if (r > 0) {
+      const phi = (v.major_axis_deg * Math.PI) / 180;
+      const a = (2 * r) / (1 + v.axis_ratio);
+      const b = a * v.axis_ratio;
+      const steps = Math.ceil(2 * Math.PI * a);
+      for (let k = 0; k < steps; k++) {
+        const t = (2 * Math.PI * k) / steps;
+        const u = a * Math.cos(t) * Math.cos(phi) - b * Math.sin(t) * Math.sin(phi);
+        const w = a * Math.cos(t) * Math.sin(phi) + b * Math.sin(t) * Math.cos(phi);
+        dot(img, v.cx_px + u, v.cy_px - w, GREEN, 0);
+      }
+    }
+  }
+  const every = Math.max(1, Math.floor(o.detections.length / 24));
+  for (let k = 0; k < o.detections.length; k += every) dot(img, o.detections[k].x_px, o.detections[k].y_px, MAGENTA, 2);
+  for (let d = -8; d <= 8; d++) {
+    dot(img, o.centre.x_px + d, o.centre.y_px, RED, 0);
+    dot(img, o.centre.x_px, o.centre.y_px + d, RED, 0);
+  }
+}
+
+function put(img: PreviewImage, x: number, y: number, c: [number, number, number]): void {
+  if (x < 0 || y < 0 || x >= img.width || y >= img.height) return;
+  const i = 3 * (y * img.width + x);
+  img.rgb[i] = c[0];
+  img.rgb[i + 1] = c[1];
+  img.rgb[i + 2] = c[2];
+}
+
+function dot(img: PreviewImage, x: number, y: number, c: [number, number, number], radius: number): void {
+  if (!Number.isFinite(x) || !Number.isFinite(y)) return;
+  const X = Math.round(x);
+  const Y = Math.round(y);
+  for (let dy = -radius; dy <= radius; dy++) for (let dx = -radius; dx <= radius; dx++) if (dx * dx + dy * dy <= radius * radius) put(img, X + dx, Y + dy, c);
+}
+
+function rect(img: PreviewImage, r: RegionPx, c: [number, number, number]): void {
+  for (let x = r.x; x < r.x + r.w; x++) {
+    put(img, x, r.y, c);
+    put(img, x, r.y + r.h - 1, c);
+  }
+  for (let y = r.y; y < r.y + r.h; y++) {
+    put(img, r.x, y, c);
+    put(img, r.x + r.w - 1, y, c);
+  }
+}

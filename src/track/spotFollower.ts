@@ -1,0 +1,172 @@
+import { findSpots, type Window } from './findSpots.js';
+
+/** One frame's marker measurement, in the signal image's pixel coordinates; NaN position when lost. */
+export interface SpotReading {
+  x_px: number;
+  y_px: number;
+  /** 0–1: contrast over noise and agreement of the spot's size with recent frames. */
+  quality: number;
+  /** '' when found, else 'lost:no-blob' | 'lost:gate' | 'lost:shape' | 'lost:repeated-frame'. */
+  flag: string;
+}
+
+export interface SpotFollowerOptions {
+  /** Where the marker may be, in signal-image pixels. */
+  region: Window;
+  /** Smallest gate radius around the predicted position, px (default 1.5). */
+  min_gate_px?: number;
+  /** Gate = this many times the RMS of recent prediction misses, if larger than min_gate_px (default 5). */
+  gate_rms_factor?: number;
+  /** A spot whose area differs from the recent median by more than this factor is refused (default 1.6). */
+  area_factor?: number;
+  /** After this many frames lost in a row, forget the motion and search the whole region again (default 15). */
+  reacquire_after?: number;
+}
+
+/**
+ * Follows one marker spot from frame to frame. The next position is predicted from recent good positions (circle through the first, middle and last of the last seven, constant angular rate at each frame's
+ * own time; or straight on from the last step); the spot is searched near the prediction and refused when it lies outside the gate
+ * (`lost:gate`: a passing particle or reflection) or its size jumps (`lost:shape`: something merged with or
+ * covered the marker). Positions are never invented: a refused frame stays lost.
+ */
+export function createSpotFollower(options: SpotFollowerOptions) {
+  const region = options.region;
+  const minGate = options.min_gate_px ?? 1.5;
+  const gateFactor = options.gate_rms_factor ?? 5;
+  const areaFactor = options.area_factor ?? 1.6;
+  const reacquireAfter = options.reacquire_after ?? 15;
+  const hist: { t: number; x: number; y: number }[] = [];
+  const misses: number[] = [];
+  const areas: number[] = [];
+  let lostRun = 0;
+
+  /** Predictions for time t: along the circle through the first, middle and last kept points (constant
+   * angular rate over the last step), and straight on from the last step; the marker may match either. */
+  const predict = (t: number): { x: number; y: number }[] => {
+    const m = hist.length;
+    if (m === 0) return [];
+    const c = hist[m - 1];
+    if (m === 1) return [{ x: c.x, y: c.y }];
+    const b = hist[m - 2];
+    const span = c.t - b.t;
+    const ahead = span > 0 ? (t - c.t) / span : 0;
+    const out = [{ x: c.x + (c.x - b.x) * ahead, y: c.y + (c.y - b.y) * ahead }];
+    if (m >= 3) {
+      const circ = circumcentre(hist[0], hist[m >> 1], c);
+      if (circ) {
+        const r = Math.hypot(c.x - circ.x, c.y - circ.y);
+        const step = wrapRad(Math.atan2(c.y - circ.y, c.x - circ.x) - Math.atan2(b.y - circ.y, b.x - circ.x));
+        const th = Math.atan2(c.y - circ.y, c.x - circ.x) + step * ahead;
+        out.unshift({ x: circ.x + r * Math.cos(th), y: circ.y + r * Math.sin(th) });
+      }
+    }
+    return out;
+  };
+
+  const medianOf = (v: number[]): number => {
+    const s = [...v].sort((p, q) => p - q);
+    return s[s.length >> 1];
+  };
+
+  return {
+    /** Measures the marker in this frame's signal image (width px per row), at frame time t_s. */
+    update(signal: Uint8Array, width: number, t_s: number): SpotReading {
+      if (lostRun >= reacquireAfter) {
+        hist.length = 0;
+        misses.length = 0;
+      }
+      const preds = predict(t_s);
+      const pred = preds.length ? preds[0] : null;
+      const typicalArea = areas.length >= 3 ? medianOf(areas) : 0;
+      const spotRadius = typicalArea > 0 ? Math.sqrt(typicalArea / Math.PI) : 0;
+      let gate = Infinity;
+      let candidate: { x: number; y: number } | null = pred;
+      if (pred && hist.length >= 3) {
+        const rms = misses.length ? Math.sqrt(misses.reduce((s, v) => s + v * v, 0) / misses.length) : minGate;
+        // a rate error grows with the distance extrapolated: allow 5 % of it, 15 % beyond one frame step
+        const c = hist[hist.length - 1];
+        const b = hist[hist.length - 2];
+        const stepPx = Math.hypot(c.x - b.x, c.y - b.y);
+        const ahead = c.t > b.t ? (t_s - c.t) / (c.t - b.t) : 1;
+        gate = Math.max(minGate, gateFactor * rms) * (1 + lostRun) + stepPx * (0.05 * ahead + 0.15 * Math.max(0, ahead - 1));
+      }
+      if (!candidate || hist.length < 3) {
+        // search the whole region (start, or few frames of history): take the spot nearest the last position, else the biggest
+        const all = findSpots(signal, width, region);
+        if (all.spots.length === 0) return lost('lost:no-blob');
+        let best = all.spots[0];
+        if (pred) {
+          for (const s of all.spots) if (Math.hypot(s.x_px - pred.x, s.y_px - pred.y) < Math.hypot(best.x_px - pred.x, best.y_px - pred.y)) best = s;
+        }
+        candidate = { x: best.x_px, y: best.y_px };
+        if (typicalArea === 0) {
+          areas.push(best.area_px);
+        }
+      }
+      // Refine in a local window (local background) around the candidate
+      const r0 = spotRadius > 0 ? spotRadius : Math.sqrt(Math.max(4, areas[areas.length - 1] ?? 20) / Math.PI);
+      const half = Math.ceil(3 * r0 + 6 + (Number.isFinite(gate) ? gate : 0));
+      const win: Window = {
+        x0: Math.max(region.x0, Math.floor(candidate.x) - half),
+        y0: Math.max(region.y0, Math.floor(candidate.y) - half),
+        x1: Math.min(region.x1, Math.floor(candidate.x) + half + 1),
+        y1: Math.min(region.y1, Math.floor(candidate.y) + half + 1),
+      };
+      const local = findSpots(signal, width, win);
+      if (local.spots.length === 0) return lost('lost:no-blob');
+      let spot = local.spots[0];
+      for (const s of local.spots) {
+        if (Math.hypot(s.x_px - candidate.x, s.y_px - candidate.y) < Math.hypot(spot.x_px - candidate.x, spot.y_px - candidate.y)) spot = s;
+      }
+      const miss = preds.length ? Math.min(...preds.map((p) => Math.hypot(spot.x_px - p.x, spot.y_px - p.y))) : 0;
+      if (miss > gate) {
+        // the same picture as the last frame while the marker should have moved: a repeated frame, whose time stamp is not its own
+        const last = hist[hist.length - 1];
+        const still = last && pred && Math.hypot(spot.x_px - last.x, spot.y_px - last.y) < 0.02 && Math.hypot(pred.x - last.x, pred.y - last.y) > 0.5;
+        return lost(still ? 'lost:repeated-frame' : 'lost:gate');
+      }
+      // a few pixels of slack so that small markers (a dozen pixels) may flicker in size
+      const ratio = typicalArea > 0 ? (spot.area_px + 6) / (typicalArea + 6) : 1;
+      if (areas.length >= 3 && (ratio > areaFactor || ratio < 1 / areaFactor)) return lost('lost:shape');
+      // accepted
+      if (pred && hist.length >= 3 && lostRun === 0) {
+        misses.push(miss);
+        if (misses.length > 30) misses.shift();
+      }
+      hist.push({ t: t_s, x: spot.x_px, y: spot.y_px });
+      if (hist.length > 7) hist.shift();
+      areas.push(spot.area_px);
+      if (areas.length > 15) areas.shift();
+      lostRun = 0;
+      const snr = spot.contrast / (spot.contrast + 10 * spot.noise);
+      const shape = Math.min(ratio, 1 / ratio);
+      return { x_px: spot.x_px, y_px: spot.y_px, quality: Math.max(0, Math.min(1, snr * shape)), flag: '' };
+    },
+  };
+
+  function lost(flag: string): SpotReading {
+    lostRun++;
+    return { x_px: Number.NaN, y_px: Number.NaN, quality: 0, flag };
+  }
+}
+
+export type SpotFollower = ReturnType<typeof createSpotFollower>;
+
+function wrapRad(a: number): number {
+  return a - 2 * Math.PI * Math.round(a / (2 * Math.PI));
+}
+
+/** Centre of the circle through three points, or null when they are nearly collinear. */
+function circumcentre(a: { x: number; y: number }, b: { x: number; y: number }, c: { x: number; y: number }): { x: number; y: number } | null {
+  const d = 2 * (a.x * (b.y - c.y) + b.x * (c.y - a.y) + c.x * (a.y - b.y));
+  const scale = Math.max(Math.hypot(b.x - a.x, b.y - a.y), Math.hypot(c.x - b.x, c.y - b.y)) ** 2;
+  if (Math.abs(d) < 1e-3 * scale) return null;
+  const a2 = a.x * a.x + a.y * a.y;
+  const b2 = b.x * b.x + b.y * b.y;
+  const c2 = c.x * c.x + c.y * c.y;
+  const x = (a2 * (b.y - c.y) + b2 * (c.y - a.y) + c2 * (a.y - b.y)) / d;
+  const y = (a2 * (c.x - b.x) + b2 * (a.x - c.x) + c2 * (b.x - a.x)) / d;
+  const r = Math.hypot(a.x - x, a.y - y);
+  if (r > 1e4) return null;
+  return { x, y };
+}

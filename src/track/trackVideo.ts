@@ -1,0 +1,448 @@
+import { InputError } from '../errors.js';
+import { SOFTWARE } from '../version.js';
+import { hashFile } from '../video/hashFile.js';
+import { probeVideoHeader, type VideoHeader } from '../video/probeVideo.js';
+import { readFrames } from '../video/readFrames.js';
+import { frameTiming } from '../video/frameTiming.js';
+import type { AngleSeries } from './AngleSeries.js';
+import type { TrackSummary } from './TrackSummary.js';
+import { applyCameraMotion, createAnchorTracker, removeCameraMotion, type AnchorTracker } from './anchorTracker.js';
+import { createTextureTracker, type TextureTracker } from './textureTracker.js';
+import { arcCoverage } from './arcCoverage.js';
+import { colourSimilarityTable } from './colourDistanceTable.js';
+import { fitCircle } from './fitCircle.js';
+import { fitEllipseRobust, type RobustEllipseFit } from './fitEllipseRobust.js';
+import { rotorPlaneAngle, wrapDeg, type ViewGeometry } from './rotorPlaneAngle.js';
+import { createSpotFollower } from './spotFollower.js';
+import { checkInside, parseMarker, toRegion, type MarkerMode, type RegionPx, type TrackOptions } from './TrackOptions.js';
+import { TrackingError } from './TrackingError.js';
+import { unwrapAngles } from './unwrapAngles.js';
+import { drawPreview, type PreviewImage } from './drawPreview.js';
+
+export type { TrackOptions, RegionPx } from './TrackOptions.js';
+
+/** What trackVideo returns: the angle series, the summary (track.json) and a preview image (RGB). */
+export interface TrackResult {
+  series: AngleSeries;
+  summary: TrackSummary;
+  preview: PreviewImage;
+}
+
+/** Free arc (deg) the marker must sweep before the centre and view are fitted from its path. */
+const MIN_ARC_FREE_DEG = 270;
+/** Arc (deg) needed to fit the view about a given centre. */
+const MIN_ARC_CENTRED_DEG = 150;
+
+/**
+ * Tracks a rotating hub in a video and returns its unwrapped angle per decoded frame.
+ * One decoding pass reads only the region (and anchor) from ffmpeg; per frame only numbers are kept.
+ * Afterwards the centre and the view (ellipse) are fitted from the marker path, the positions are
+ * turned into angles in the rotor's own plane and unwrapped.
+ * Angle zero: the first good frame's angle is the marker's absolute angle in the rotor plane, measured
+ * counterclockwise from the image's +x direction about the centre (texture mode: 0 at the first frame).
+ */
+export async function trackVideo(path: string, options: TrackOptions = {}): Promise<TrackResult> {
+  const mode = parseMarker(options.marker ?? 'bright');
+  const header = await probeVideoHeader(path, { ffprobe: options.ffprobe });
+  const roi = options.roi !== undefined ? toRegion('--roi', options.roi) : { x: 0, y: 0, w: header.width, h: header.height };
+  checkInside('--roi', roi, header.width, header.height);
+  const anchor = options.anchor !== undefined ? toRegion('--anchor', options.anchor) : null;
+  if (anchor) checkInside('--anchor', anchor, header.width, header.height);
+  const centre = resolveCentre(options.centre);
+  if (centre && (centre.x_px < roi.x || centre.y_px < roi.y || centre.x_px > roi.x + roi.w - 1 || centre.y_px > roi.y + roi.h - 1)) {
+    throw new InputError(`--center ${centre.x_px},${centre.y_px} lies outside --roi ${roi.x},${roi.y},${roi.w},${roi.h}; give the centre of rotation inside the region`);
+  }
+  if (options.tilt_deg !== undefined && !(options.tilt_deg >= 0 && options.tilt_deg < 85)) {
+    throw new InputError(`--tilt ${options.tilt_deg} must be an angle from 0 to 85 degrees`);
+  }
+  if (mode.kind === 'texture' && !centre) {
+    throw new InputError('--marker texture needs --center x,y (the rotation centre in pixels)');
+  }
+  const tolerance = options.colour_tolerance ?? 40;
+  const crop = anchor ? union(roi, anchor) : roi;
+  const warnings: string[] = [];
+
+  // ---- one decoding pass: per-frame numbers only ----
+  const store = new FrameStore();
+  const region = { x0: roi.x - crop.x, y0: roi.y - crop.y, x1: roi.x - crop.x + roi.w, y1: roi.y - crop.y + roi.h };
+  const follower = mode.kind === 'texture' ? null : createSpotFollower({ region });
+  const colourTable = mode.kind === 'color' ? colourSimilarityTable(mode.rgb, tolerance) : null;
+  const anchorTracker: AnchorTracker | null = anchor ? createAnchorTracker({ anchor }) : null;
+  let texture: TextureTracker | null = null;
+  if (mode.kind === 'texture' && centre) {
+    const edge = Math.min(centre.x_px - roi.x, centre.y_px - roi.y, roi.x + roi.w - 1 - centre.x_px, roi.y + roi.h - 1 - centre.y_px);
+    const [rIn, rOut] = options.texture_radii_px ?? [Math.min(10, 0.3 * edge), 0.9 * edge];
+    if (!(rOut > rIn + 4)) throw new InputError(`--center ${centre.x_px},${centre.y_px} is too close to the edge of --roi for texture tracking; give a region that holds the whole hub`);
+    texture = createTextureTracker({ centre, r_inner_px: rIn, r_outer_px: rOut });
+  }
+  let signalBuf: Uint8Array | null = null;
+  let grayBuf: Uint8Array | null = null;
+  const duration_s = Math.max(0, Math.min(options.to_s ?? Infinity, header.duration_s) - (options.from_s ?? 0));
+  let colourSeen = 0;
+  let shiftMax = 0;
+  let rotMax = 0;
+  let shiftSs = 0;
+  let motionCount = 0;
+
+  for await (const frame of readFrames(path, {
+    ffmpeg: options.ffmpeg,
+    ffprobe: options.ffprobe,
+    pixels: mode.kind === 'color' ? 'rgb' : 'gray',
+    roi: crop,
+    from_s: options.from_s,
+    to_s: options.to_s,
+    signal: options.signal,
+    header,
+  })) {
+    const W = frame.width;
+    let gray = frame.data;
+    if (frame.channels === 3) {
+      grayBuf ??= new Uint8Array(W * frame.height);
+      const d = frame.data;
+      for (let i = 0, j = 0; i < grayBuf.length; i++, j += 3) grayBuf[i] = (77 * d[j] + 150 * d[j + 1] + 29 * d[j + 2]) >> 8;
+      gray = grayBuf;
+    }
+    let motion = { dx_px: 0, dy_px: 0, rotation_deg: 0, quality: 1 };
+    if (anchorTracker) {
+      motion = anchorTracker.update({ data: gray, width: W, height: frame.height, origin_x_px: crop.x, origin_y_px: crop.y });
+      if (Number.isFinite(motion.dx_px)) {
+        const s = Math.hypot(motion.dx_px, motion.dy_px);
+        shiftMax = Math.max(shiftMax, s);
+        rotMax = Math.max(rotMax, Math.abs(motion.rotation_deg));
+        shiftSs += s * s;
+        motionCount++;
+      }
+    }
+    if (anchorTracker && !Number.isFinite(motion.dx_px)) {
+      store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:camera');
+    } else if (texture && centre) {
+      let offset: { dx_px: number; dy_px: number } | undefined;
+      if (anchorTracker) {
+        const moved = applyCameraMotion(centre, motion, anchorTracker.pivot);
+        offset = { dx_px: moved.x_px - centre.x_px, dy_px: moved.y_px - centre.y_px };
+      }
+      const r = texture.update({ data: gray, width: W, height: frame.height, origin_x_px: crop.x, origin_y_px: crop.y }, offset);
+      const a = r.angle_deg - (anchorTracker ? motion.rotation_deg : 0);
+      store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, a, r.quality, Number.isFinite(a) ? '' : 'lost:texture');
+    } else if (follower) {
+      let signal: Uint8Array;
+      if (mode.kind === 'bright') {
+        signal = gray;
+      } else {
+        signalBuf ??= new Uint8Array(W * frame.height);
+        signal = signalBuf;
+        const d = frame.data;
+        for (let y = region.y0; y < region.y1; y++) {
+          for (let x = region.x0, i = y * W + region.x0; x < region.x1; x++, i++) {
+            if (colourTable) {
+              const j = 3 * i;
+              const v = colourTable[((d[j] >> 2) << 12) | ((d[j + 1] >> 2) << 6) | (d[j + 2] >> 2)];
+              signal[i] = v;
+              if (v > 0) colourSeen++;
+            } else {
+              signal[i] = 255 - d[i];
+            }
+          }
+        }
+      }
+      const r = follower.update(signal, W, frame.t_s);
+      const x = r.x_px + crop.x;
+      const y = r.y_px + crop.y;
+      let sx = x;
+      let sy = y;
+      if (anchorTracker && Number.isFinite(x)) {
+        const p = removeCameraMotion({ x_px: x, y_px: y }, motion, anchorTracker.pivot);
+        sx = p.x_px;
+        sy = p.y_px;
+      }
+      store.push(frame.index, frame.t_s, x, y, sx, sy, NaN, r.quality, r.flag);
+    }
+    if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
+  }
+  if (store.n === 0) {
+    throw new TrackingError(`no frames were decoded from ${path} between ${options.from_s ?? 'the start'} and ${options.to_s ?? 'the end'} s; check --from and --to`, path);
+  }
+  const n = store.n;
+  const t_s = store.t.subarray(0, n);
+  const quality = store.q.subarray(0, n);
+  const flag = store.flag;
+
+  // ---- geometry ----
+  let view: ViewGeometry | null = null;
+  let viewSummary: TrackSummary['view'] = null;
+  let centreSummary: TrackSummary['centre'];
+  let fit: RobustEllipseFit | null = null;
+  const wrapped = new Float64Array(n).fill(NaN);
+  let maxCorrection = 0;
+  if (mode.kind === 'texture') {
+    const c = texture!.centre_px;
+    centreSummary = { x_px: given(c.x_px), y_px: given(c.y_px), source: 'given' };
+    for (let i = 0; i < n; i++) wrapped[i] = Number.isFinite(store.a[i]) ? wrapDeg(store.a[i]) : NaN;
+  } else {
+    const good: number[] = [];
+    for (let i = 0; i < n; i++) if (flag[i] === '') good.push(i);
+    if (good.length < 5) {
+      if (mode.kind === 'color' && colourSeen === 0) {
+        throw new InputError(`no pixel in --roi ${roi.x},${roi.y},${roi.w},${roi.h} comes within ΔE ${tolerance} of --marker color:${mode.hex.slice(1)}; check the colour (pick it from a frame) or the region`);
+      }
+      throw new InputError(`no ${markerWord(mode)} marker was found in --roi ${roi.x},${roi.y},${roi.w},${roi.h} (found in ${good.length} of ${n} frames); check --roi and --marker`);
+    }
+    const gx = Float64Array.from(good, (i) => store.sx[i]);
+    const gy = Float64Array.from(good, (i) => store.sy[i]);
+    let cx: number;
+    let cy: number;
+    if (centre) {
+      cx = centre.x_px;
+      cy = centre.y_px;
+    } else {
+      const stride = Math.max(1, Math.ceil(good.length / 2000));
+      const tx = gx.filter((_, k) => k % stride === 0);
+      const ty = gy.filter((_, k) => k % stride === 0);
+      const circle = fitCircle(tx, ty);
+      const arc = arcCoverage(tx, ty, circle.cx_px, circle.cy_px);
+      if (!(arc >= MIN_ARC_FREE_DEG)) {
+        throw new InputError(
+          `the marker swept only ${arc.toFixed(0)}° of its circle, too little to fit the centre and view; give --center x,y (and --tilt deg if the camera is not square to the axis)`,
+        );
+      }
+      cx = circle.cx_px;
+      cy = circle.cy_px;
+    }
+    const arcAbout = arcCoverage(gx, gy, cx, cy);
+    const canFit = centre ? arcAbout >= MIN_ARC_CENTRED_DEG : true;
+    if (canFit) {
+      fit = fitEllipseRobust(gx, gy, centre ? { centre } : {});
+      // frames far off the fitted path are not trusted
+      for (let k = 0; k < good.length; k++) {
+        if (!fit.inlier[k]) {
+          const i = good[k];
+          flag[i] = 'lost:off-path';
+          quality[i] = 0;
+        }
+      }
+      const e = fit.ellipse;
+      const ratio = e.semi_minor_px / e.semi_major_px;
+      const significant = 1 - ratio > Math.max(0.002, 2 * fit.se.axis_ratio);
+      let useRatio = significant ? ratio : 1;
+      let axis = e.major_axis_deg;
+      if (options.tilt_deg !== undefined) {
+        useRatio = Math.cos((options.tilt_deg * Math.PI) / 180);
+        if (!significant) axis = options.tilt_axis_deg ?? 0;
+      }
+      view = { cx_px: e.cx_px, cy_px: e.cy_px, axis_ratio: useRatio, major_axis_deg: axis };
+      const tilt = (Math.acos(Math.min(1, ratio)) * 180) / Math.PI;
+      // d(tilt)/d(ratio) = −1/sin(tilt), deg per unit ratio
+      const tiltSe = ratio < 1 ? (fit.se.axis_ratio / Math.sqrt(1 - ratio * ratio)) * (180 / Math.PI) : NaN;
+      const ciTilt: [number, number] = [acosDeg(fit.ci95.axis_ratio[1]), acosDeg(fit.ci95.axis_ratio[0])];
+      viewSummary = {
+        semi_major_px: e.semi_major_px,
+        semi_minor_px: e.semi_minor_px,
+        major_axis_deg: axis,
+        axis_ratio: ratio,
+        tilt_deg: options.tilt_deg !== undefined ? given(options.tilt_deg) : { value: tilt, se: tiltSe, ci: ciTilt, level: 0.95 },
+        max_correction_deg: 0,
+        corrected: useRatio !== 1,
+      };
+      centreSummary = centre
+        ? { x_px: given(cx), y_px: given(cy), source: 'given' }
+        : {
+            x_px: { value: e.cx_px, se: fit.se.cx_px, ci: fit.ci95.cx_px, level: 0.95 },
+            y_px: { value: e.cy_px, se: fit.se.cy_px, ci: fit.ci95.cy_px, level: 0.95 },
+            source: 'ellipse-fit',
+          };
+    } else {
+      const ratio = options.tilt_deg !== undefined ? Math.cos((options.tilt_deg * Math.PI) / 180) : 1;
+      view = { cx_px: cx, cy_px: cy, axis_ratio: ratio, major_axis_deg: options.tilt_axis_deg ?? 0 };
+      if (options.tilt_deg === undefined) {
+        warnings.push(`The marker swept only ${arcAbout.toFixed(0)}° about --center, too little to measure the view; angles assume a square-on camera (give --tilt deg if it is not).`);
+      }
+      viewSummary = {
+        semi_major_px: NaN,
+        semi_minor_px: NaN,
+        major_axis_deg: view.major_axis_deg,
+        axis_ratio: ratio,
+        tilt_deg: given(options.tilt_deg ?? 0),
+        max_correction_deg: 0,
+        corrected: ratio !== 1,
+      };
+      centreSummary = { x_px: given(cx), y_px: given(cy), source: 'given' };
+    }
+    const plain: ViewGeometry = { cx_px: view.cx_px, cy_px: view.cy_px, axis_ratio: 1, major_axis_deg: 0 };
+    for (let i = 0; i < n; i++) {
+      if (flag[i] !== '') continue;
+      wrapped[i] = rotorPlaneAngle(store.sx[i], store.sy[i], view);
+      const raw = rotorPlaneAngle(store.sx[i], store.sy[i], plain);
+      maxCorrection = Math.max(maxCorrection, Math.abs(wrapDeg(wrapped[i] - raw)));
+    }
+    if (viewSummary) viewSummary.max_correction_deg = maxCorrection;
+  }
+
+  // ---- unwrap ----
+  const unwrapped = unwrapAngles(t_s, wrapped);
+  const steps = Array.from(unwrapped.step_deg).sort((a, b) => a - b);
+  const p95 = steps.length ? steps[Math.min(steps.length - 1, Math.floor(0.95 * steps.length))] : 0;
+  if (p95 > 60) {
+    warnings.push(`The hub turns up to ${p95.toFixed(0)}° between frames, close to the 180° aliasing limit of a single marker; film at a higher frame rate or check the direction by eye.`);
+  }
+  for (const s of unwrapped.splits) {
+    warnings.push(`The marker was lost for ${s.gap_s.toFixed(2)} s after ${s.t_s.toFixed(3)} s, too long to count the turns; the series is split there and the turn count after it is a best guess.`);
+  }
+  const lostByReason: Record<string, number> = {};
+  let lost = 0;
+  for (let i = 0; i < n; i++) {
+    if (flag[i] !== '') {
+      lost++;
+      lostByReason[flag[i]] = (lostByReason[flag[i]] ?? 0) + 1;
+    }
+  }
+  if (lost > 0.2 * n) warnings.push(`The marker was lost in ${((100 * lost) / n).toFixed(0)}% of frames; check the region, the marker kind and the preview.`);
+
+  const series: AngleSeries = {
+    frame: Int32Array.from(store.frame.subarray(0, n)),
+    t_s: Float64Array.from(t_s),
+    x_px: Float64Array.from(store.x.subarray(0, n)),
+    y_px: Float64Array.from(store.y.subarray(0, n)),
+    angle_deg: unwrapped.angle_deg,
+    quality: Float64Array.from(quality),
+    flag: flag.slice(0, n),
+  };
+  for (let i = 0; i < n; i++) {
+    if (series.flag[i] !== '') {
+      series.x_px[i] = NaN;
+      series.y_px[i] = NaN;
+      series.angle_deg[i] = NaN;
+    }
+  }
+  const timing = frameTiming(t_s);
+  const hash = await hashFile(path);
+  const pathSample: { x_px: number; y_px: number }[] = [];
+  const every = Math.max(1, Math.ceil(n / 400));
+  for (let i = 0; i < n; i += every) if (Number.isFinite(series.x_px[i])) pathSample.push({ x_px: series.x_px[i], y_px: series.y_px[i] });
+
+  const summary: TrackSummary = {
+    software: { ...SOFTWARE },
+    input: {
+      path,
+      size_bytes: hash.size_bytes,
+      sha256: hash.sha256,
+      width: header.width,
+      height: header.height,
+      frame_count: n,
+      nominal_fps: timing.median_fps,
+      variable_frame_rate: timing.variable_frame_rate,
+    },
+    settings: {
+      roi: [roi.x, roi.y, roi.w, roi.h],
+      centre: centre ? [centre.x_px, centre.y_px] : null,
+      marker: mode.kind === 'color' ? `color:${mode.hex}` : mode.kind,
+      colour_tolerance: mode.kind === 'color' ? tolerance : null,
+      anchor: anchor ? [anchor.x, anchor.y, anchor.w, anchor.h] : null,
+      from_s: options.from_s ?? null,
+      to_s: options.to_s ?? null,
+      tilt_deg: options.tilt_deg ?? null,
+      tilt_axis_deg: options.tilt_axis_deg ?? null,
+      decoded_region: [crop.x, crop.y, crop.w, crop.h],
+      angle_zero: mode.kind === 'texture' ? 'first frame' : 'marker angle about the centre at the first good frame, from image +x',
+      unwrap: { max_ambiguity_deg: 90, rate_change_fraction: 0.25 },
+    },
+    centre: centreSummary,
+    view: viewSummary,
+    camera_motion: anchor
+      ? { anchor: [anchor.x, anchor.y, anchor.w, anchor.h], max_shift_px: shiftMax, max_rotation_deg: rotMax, rms_shift_px: motionCount ? Math.sqrt(shiftSs / motionCount) : NaN }
+      : null,
+    frames: { decoded: n, lost, lost_by_reason: lostByReason },
+    splits: unwrapped.splits.map((s) => ({ after_frame: series.frame[s.after_index], t_s: s.t_s, gap_s: s.gap_s })),
+    path_sample: pathSample,
+    warnings,
+  };
+  if (fit) summary.path_fit = { rms_px: fit.rms_px, rejected: countZeros(fit.inlier) };
+
+  const preview = await drawPreview(path, {
+    header,
+    ffmpeg: options.ffmpeg,
+    ffprobe: options.ffprobe,
+    from_s: options.from_s,
+    roi,
+    anchor,
+    view,
+    centre: { x_px: centreSummary.x_px.value, y_px: centreSummary.y_px.value },
+    detections: pathSample.slice(0, 400),
+    signal: options.signal,
+  });
+  return { series, summary, preview };
+}
+
+function resolveCentre(c: TrackOptions['centre']): { x_px: number; y_px: number } | null {
+  if (!c) return null;
+  const x = c.x_px ?? c.x;
+  const y = c.y_px ?? c.y;
+  if (!Number.isFinite(x) || !Number.isFinite(y)) throw new InputError(`--center must be two numbers x,y in pixels`);
+  return { x_px: x as number, y_px: y as number };
+}
+
+function union(a: RegionPx, b: RegionPx): RegionPx {
+  const x = Math.min(a.x, b.x);
+  const y = Math.min(a.y, b.y);
+  return { x, y, w: Math.max(a.x + a.w, b.x + b.w) - x, h: Math.max(a.y + a.h, b.y + b.h) - y };
+}
+
+function given(value: number) {
+  return { value, se: 0, ci: [value, value] as [number, number], level: 0.95 };
+}
+
+function acosDeg(r: number): number {
+  return (Math.acos(Math.max(-1, Math.min(1, r))) * 180) / Math.PI;
+}
+
+function countZeros(a: Uint8Array): number {
+  let z = 0;
+  for (const v of a) if (!v) z++;
+  return z;
+}
+
+function markerWord(mode: MarkerMode): string {
+  return mode.kind === 'color' ? `color:${mode.hex}` : mode.kind;
+}
+
+/** Growable per-frame columns (typed arrays, doubled when full). */
+class FrameStore {
+  n = 0;
+  frame = new Int32Array(1024);
+  t = new Float64Array(1024);
+  x = new Float64Array(1024);
+  y = new Float64Array(1024);
+  sx = new Float64Array(1024);
+  sy = new Float64Array(1024);
+  a = new Float64Array(1024);
+  q = new Float64Array(1024);
+  flag: string[] = [];
+  push(frame: number, t: number, x: number, y: number, sx: number, sy: number, a: number, q: number, flag: string): void {
+    if (this.n === this.t.length) {
+      const grow = <T extends Float64Array | Int32Array>(arr: T): T => {
+        const next = new (arr.constructor as new (n: number) => T)(arr.length * 2);
+        next.set(arr);
+        return next;
+      };
+      this.frame = grow(this.frame);
+      this.t = grow(this.t);
+      this.x = grow(this.x);
+      this.y = grow(this.y);
+      this.sx = grow(this.sx);
+      this.sy = grow(this.sy);
+      this.a = grow(this.a);
+      this.q = grow(this.q);
+    }
+    const i = this.n++;
+    this.frame[i] = frame;
+    this.t[i] = t;
+    this.x[i] = x;
+    this.y[i] = y;
+    this.sx[i] = sx;
+    this.sy[i] = sy;
+    this.a[i] = a;
+    this.q[i] = q;
+    this.flag.push(flag);
+  }
+}
+
+export type { VideoHeader };

@@ -1,0 +1,69 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { simulateSteady } from '../../bench/fitScenarios.mjs';
+
+// Spawns the built CLI (run `npm run build` first, as `npm test` does).
+const bin = fileURLToPath(new URL('../../bin/revtrace', import.meta.url));
+const dir = mkdtempSync(join(tmpdir(), 'revtrace-cli-fit-'));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+function run(args: string[]): { status: number | null; stdout: string; stderr: string } {
+  const r = spawnSync(process.execPath, [bin, ...args], { encoding: 'utf8' });
+  return { status: r.status, stdout: r.stdout, stderr: r.stderr };
+}
+
+let anglePath = '';
+beforeAll(() => {
+  // invented reverse-flow run: the rotor creeps at −0.25 deg/s, 20 s at 30 fps, every 25th frame lost
+  const { t_s, angle_deg } = simulateSteady({ seed: 8, n: 600, fps: 30, t0_s: 2, rate_deg_s: -0.25, white_deg: 0.15, ar_phi: 0.8, ar_sd_deg: 0.2 });
+  const lines = ['frame,t_s,angle_deg,flag'];
+  for (let i = 0; i < t_s.length; i++) lines.push(`${i},${t_s[i]!.toFixed(6)},${i % 25 === 3 ? '' : angle_deg[i]!.toFixed(5)},${i % 25 === 3 ? 'lost:gate' : ''}`);
+  anglePath = join(dir, 'angle.csv');
+  writeFileSync(anglePath, lines.join('\n') + '\n');
+});
+
+describe('revtrace fit', () => {
+  it('writes fit.json and rate.csv and prints the rate with its interval', () => {
+    const out = join(dir, 'run', 'fit.json');
+    const r = run(['fit', anglePath, '--out', out, '--margin', '0.5', '--level', '0.9']);
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    expect(r.stdout).toMatch(/rate -0\.2\d* deg\/s \(90% CI/);
+    const report = JSON.parse(readFileSync(out, 'utf8'));
+    expect(report.model).toBe('steady');
+    expect(report.steady.rate_deg_s.level).toBe(0.9);
+    expect(report.steady.zero_test.margin_deg_s).toBe(0.5);
+    expect(report.diagnostics.lost_share).toBeCloseTo(24 / 600, 3);
+    expect(existsSync(join(dir, 'run', 'rate.csv'))).toBe(true);
+  });
+
+  const bad: [string, string[], RegExp][] = [
+    ['a window outside the data', ['--from', '100', '--to', '200'], /lies outside the data/],
+    ['a level of 95', ['--level', '95'], /--level must lie between 0 and 1/],
+    ['a non-numeric --from', ['--from', 'abc'], /--from must be a number/],
+    ['an unknown model', ['--model', 'linear'], /--model must be steady, spinup, spindown or auto/],
+  ];
+  for (const [what, extra, message] of bad) {
+    it(`exits 2 with one sentence and writes nothing for ${what}`, () => {
+      const out = join(dir, `bad-${what.replace(/\W+/g, '-')}`, 'fit.json');
+      const r = run(['fit', anglePath, '--out', out, ...extra]);
+      expect(r.status).toBe(2);
+      expect(r.stderr).toMatch(message);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect(r.stderr).not.toMatch(/\n\s+at /);
+      expect(existsSync(out)).toBe(false);
+    });
+  }
+
+  it('exits 2 for a table without an angle_deg column', () => {
+    const p = join(dir, 'noangle.csv');
+    writeFileSync(p, 't_s,theta\n' + Array.from({ length: 20 }, (_, i) => `${i},${i}`).join('\n'));
+    const r = run(['fit', p, '--out', join(dir, 'x', 'fit.json')]);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^revtrace: .*no angle_deg column/);
+  });
+});

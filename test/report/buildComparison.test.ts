@@ -1,0 +1,45 @@
+import { describe, expect, it } from 'vitest';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { buildComparison } from '../../src/report/buildComparison.js';
+import { loadReportData } from '../../src/report/loadReportData.js';
+import { poolReplicates } from '../../src/fit/poolReplicates.js';
+import { writeTestBatch } from './writeTestBatch.js';
+
+describe('buildComparison', () => {
+  it('groups runs by setting, pools each direction, and refuses a power law across a sign change', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-compare-'));
+    try {
+      await writeTestBatch(dir, [
+        { run: 'f1a', direction: 'forward', setting: 1, rate_deg_s: 40, se_deg_s: 0.4 },
+        { run: 'f1b', direction: 'forward', setting: 1, rate_deg_s: 42, se_deg_s: 0.4 },
+        { run: 'r1a', direction: 'reverse', setting: 1, rate_deg_s: -0.3, se_deg_s: 0.05 },
+        { run: 'f2a', direction: 'forward', setting: 2, rate_deg_s: 95, se_deg_s: 0.5 },
+        { run: 'r2a', direction: 'reverse', setting: 2, rate_deg_s: 0.2, se_deg_s: 0.05 },
+        { run: 'f4a', direction: 'forward', setting: 4, rate_deg_s: 210, se_deg_s: 1 },
+        { run: 'bad', direction: 'reverse', setting: 4, rate_deg_s: 0, failed: 'No marker found in any frame.' },
+      ]);
+      const data = await loadReportData(dir);
+      const s = buildComparison(data.runs, { margin_deg_s: 0.5 });
+      expect(s.settings.map((x) => x.setting)).toEqual([1, 2, 4]);
+      const one = s.settings[0]!;
+      expect(one.forward.runs.map((r) => r.run)).toEqual(['f1a', 'f1b']);
+      // the pooled forward rate is the random-effects pool of the two runs' fit.json rates
+      expect(one.forward.pooled!.value_deg_s).toBeCloseTo(poolReplicates([{ value_deg_s: 40, se_deg_s: 0.4, df: 30 }, { value_deg_s: 42, se_deg_s: 0.4, df: 30 }]).value_deg_s, 12);
+      expect(one.comparison!.equivalence!.margin_deg_s).toBe(0.5);
+      expect(one.notes.join(' ')).toMatch(/single run/i);
+      expect(s.settings[2]!.comparison).toBeNull();
+      expect(s.settings[2]!.notes).toContain('No reverse run at this setting.');
+      const fwd = s.trends.find((t) => t.direction === 'forward')!;
+      expect(fwd.fit!.n).toBe(4);
+      expect(fwd.fit!.b.value).toBeGreaterThan(1);
+      const rev = s.trends.find((t) => t.direction === 'reverse')!;
+      expect(rev.fit).toBeNull();
+      expect(rev.notes.join(' ')).toMatch(/do not all turn the same way/);
+      expect(s.margin_source).toBe('given for this report');
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+});
