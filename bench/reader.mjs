@@ -2,7 +2,7 @@
 // over a 10-minute 1080p60 clip. Run after `npm run build`: node bench/reader.mjs
 // Clips are generated with ffmpeg's lavfi sources and cached under bench/out/ (git-ignored).
 import { spawn, spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, openSync, closeSync, readFileSync, renameSync } from 'node:fs';
+import { existsSync, mkdirSync, openSync, closeSync, readFileSync, renameSync, rmSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { join } from 'node:path';
 import os from 'node:os';
@@ -18,7 +18,7 @@ function makeClip(ffmpeg, file, args) {
   const tmp = `${file}.part.mp4`;
   const t0 = performance.now();
   const r = spawnSync(ffmpeg, ['-hide_banner', '-loglevel', 'error', '-nostdin', '-y', ...args, tmp], { stdio: 'inherit' });
-  if (r.status !== 0) throw new Error(`ffmpeg could not make ${file}`);
+  if (r.status !== 0) { rmSync(tmp, { force: true }); throw new Error(`ffmpeg could not make ${file}`); }
   renameSync(tmp, file);
   console.error(`made ${file} in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
   return file;

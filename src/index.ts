@@ -21,7 +21,7 @@ export type { ParseManifestOptions } from './batch/parseManifest.js';
 export type { Manifest, ManifestRun } from './batch/Manifest.js';
 export { ManifestError } from './batch/ManifestError.js';
 export type { ManifestProblem } from './batch/ManifestError.js';
-export type { RunSettings, TrackSettings, FitSettings, RegionPx } from './batch/RunSettings.js';
+export type { RunSettings, TrackSettings, FitSettings } from './batch/RunSettings.js';
 export type { RunJob, RunProcessor, RunProgress } from './batch/RunJob.js';
 export type { BatchEvent } from './batch/BatchEvent.js';
 export { parseShard, shardOf } from './batch/shard.js';

@@ -1,10 +1,6 @@
-/** A rectangle in full-frame pixels of the displayed video: left, top, width, height. */
-export interface RegionPx {
-  x: number;
-  y: number;
-  w: number;
-  h: number;
-}
+import type { RegionPx } from '../track/TrackOptions.js';
+
+export type { RegionPx };
 
 /** Track settings of one run after defaults and per-row overrides; null means "the tracker's default". */
 export interface TrackSettings {

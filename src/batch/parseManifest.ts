@@ -6,7 +6,7 @@ import { InputError } from '../errors.js';
 import type { Manifest, ManifestRun } from './Manifest.js';
 import { ManifestError, type ManifestProblem } from './ManifestError.js';
 import { DEFAULT_RUN_SETTINGS, type RunSettings } from './RunSettings.js';
-import { COLUMN_ALIASES, SETTING_COLUMNS, crossSettingProblems } from './settingColumns.js';
+import { COLUMN_ALIASES, SETTING_COLUMNS, crossSettingProblems, parseDecimal } from './settingColumns.js';
 import { runIdProblem } from './runIdProblem.js';
 
 export interface ParseManifestOptions {
@@ -163,7 +163,7 @@ export async function parseManifest(manifestPath: string, options: ParseManifest
     const settingText = cell('setting');
     let setting: number | null = null;
     if (settingText !== '') {
-      setting = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(settingText) ? Number(settingText) : NaN;
+      setting = parseDecimal(settingText);
       if (!Number.isFinite(setting)) at('setting', `the setting "${settingText}" is not a number; write the value alone (e.g. 1.5) and its unit in setting_unit`);
     }
 

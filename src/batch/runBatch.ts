@@ -14,11 +14,12 @@ import type { Manifest, ManifestRun } from './Manifest.js';
 import { parseManifest } from './parseManifest.js';
 import { processRun } from './processRun.js';
 import { rebuildSummary } from './rebuildSummary.js';
-import type { RunJob, RunProcessor } from './RunJob.js';
+import type { RunJob, RunProcessor, RunProgress } from './RunJob.js';
 import type { RunRecord } from './RunRecord.js';
 import { runRecordFor } from './runRecordFor.js';
 import { commitRecord, outputsPresent, readCommittedRecord, resetRunFolder } from './runFolder.js';
 import { shardOf, type Shard } from './shard.js';
+import { headlineRate } from './summaryRow.js';
 
 export interface BatchOptions {
   /** Output folder; default `reports/<manifest name>/` under the current directory. */
@@ -111,26 +112,20 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
   }
   emit({ type: 'plan', out_dir: outDir, manifest: manifest.path, runs_in_manifest: manifest.runs.length, runs: mine.length, shard, jobs, worker });
 
-  // Stale temporary files: from our own runs' folders, and the top level when not sharded.
-  const folders = mine.map((r) => join(runsDir, r.run));
-  if (!shard) {
-    folders.push(outDir);
-    try {
-      for (const d of await readdir(runsDir, { withFileTypes: true })) if (d.isDirectory()) folders.push(join(runsDir, d.name));
-    } catch {
-      // no runs/ yet
-    }
+  // Stale temporary files: in our own runs' folders; when not sharded, in every run folder and the top level.
+  let existing: string[] = [];
+  try {
+    existing = (await readdir(runsDir, { withFileTypes: true })).filter((d) => d.isDirectory()).map((d) => d.name);
+  } catch {
+    // no runs/ yet
   }
-  const cleaned = await cleanStaleTemps([...new Set(folders)]);
+  const folders = shard ? mine.map((r) => join(runsDir, r.run)) : [outDir, ...existing.map((name) => join(runsDir, name))];
+  const cleaned = await cleanStaleTemps(folders);
   if (cleaned.length > 0) emit({ type: 'cleaned', files: cleaned });
   if (!shard) {
-    try {
-      const known = new Set(manifest.runs.map((r) => r.run));
-      const stray = (await readdir(runsDir, { withFileTypes: true })).filter((d) => d.isDirectory() && !d.name.startsWith('.') && !known.has(d.name)).map((d) => d.name);
-      if (stray.length > 0) emit({ type: 'stray', runs: stray.sort() });
-    } catch {
-      // no runs/ yet
-    }
+    const known = new Set(manifest.runs.map((r) => r.run));
+    const stray = existing.filter((name) => !name.startsWith('.') && !known.has(name)).sort();
+    if (stray.length > 0) emit({ type: 'stray', runs: stray });
   }
 
   const records = new Map<string, RunRecord>();
@@ -139,34 +134,27 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
   let processed = 0;
   let cached = 0;
 
+  const failedRecord = (job: RunJob, error: string, started: Date): RunRecord => {
+    const finished = new Date();
+    return runRecordFor(job, {
+      status: 'failed', error, fit: null, lost_share: null, warnings: [],
+      started_at: started.toISOString(), finished_at: finished.toISOString(), elapsed_s: (finished.getTime() - started.getTime()) / 1000, outputs: [],
+    });
+  };
+
+  /** Hashes, checks the cache, processes and commits one run; an interrupted run is left uncommitted. */
   const doRun = async (r: ManifestRun): Promise<void> => {
     const runDir = join(runsDir, r.run);
     const started = new Date();
-    let input: { size_bytes: number; sha256: string };
+    const job: RunJob = { ...r, run_dir: runDir, input: { size_bytes: -1, sha256: '' }, cache_key: '', manifest: { path: manifest.path, sha256: manifest.sha256 }, tools: options.tools ?? {} };
+    let record: RunRecord | null = null;
     try {
-      input = await hashFile(r.video_abs);
+      job.input = await hashFile(r.video_abs);
+      job.cache_key = cacheKey({ input: job.input, settings: r.settings, software_version: VERSION });
     } catch (err) {
-      input = { size_bytes: -1, sha256: '' };
-      const job = { ...r, run_dir: runDir, input, cache_key: '', manifest: { path: manifest.path, sha256: manifest.sha256 }, tools: options.tools ?? {} };
-      const error = `cannot read the video ${r.video} (${(err as Error).message}); check the file`;
-      const record = runRecordFor(job, { status: 'failed', error, fit: null, lost_share: null, warnings: [], started_at: started.toISOString(), finished_at: new Date().toISOString(), elapsed_s: 0, outputs: [] });
-      await resetRunFolder(runDir);
-      await commitRecord(runDir, record);
-      records.set(r.run, record);
-      processed++;
-      failed.push({ run: r.run, error });
-      emit({ type: 'failed', run: r.run, error });
-      return;
+      record = failedRecord(job, `cannot read the video ${r.video} (${(err as Error).message}); check the file`, started);
     }
-    const job: RunJob = {
-      ...r,
-      run_dir: runDir,
-      input,
-      cache_key: cacheKey({ input, settings: r.settings, software_version: VERSION }),
-      manifest: { path: manifest.path, sha256: manifest.sha256 },
-      tools: options.tools ?? {},
-    };
-    if (!options.force) {
+    if (!record && !options.force) {
       const previous = await readCommittedRecord(runDir);
       if (previous && previous.status === 'ok' && previous.cache_key === job.cache_key && (await outputsPresent(runDir, previous))) {
         const update = refreshed(previous, job);
@@ -179,43 +167,36 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
     }
     if (signal.aborted) return;
     await resetRunFolder(runDir);
-    emit({ type: 'start', run: r.run, row: r.row });
-    let lastProgress = 0;
-    const onProgress = (p: { frames: number; t_s: number; duration_s: number }) => {
-      const now = Date.now();
-      if (now - lastProgress < 250) return;
-      lastProgress = now;
-      emit({ type: 'progress', run: r.run, frames: p.frames, t_s: p.t_s, duration_s: p.duration_s });
-    };
-    let record: RunRecord;
-    try {
-      const result = await processor(job, signal, onProgress);
-      record = { ...result, run: job.run, cache_key: job.cache_key, row: job.row, input: job.input, manifest: job.manifest };
-    } catch (err) {
-      if (signal.aborted) {
-        unfinished.push(r.run);
-        return; // left uncommitted: a rerun does it again
+    if (!record) {
+      emit({ type: 'start', run: r.run, row: r.row });
+      let lastProgress = 0;
+      const onProgress = (p: RunProgress) => {
+        const now = Date.now();
+        if (now - lastProgress < 250) return;
+        lastProgress = now;
+        emit({ type: 'progress', run: r.run, frames: p.frames, t_s: p.t_s, duration_s: p.duration_s });
+      };
+      try {
+        const result = await processor(job, signal, onProgress);
+        record = { ...result, run: job.run, cache_key: job.cache_key, row: job.row, input: job.input, manifest: job.manifest };
+      } catch (err) {
+        record = failedRecord(job, messageOf(err), started);
       }
-      const finished = new Date();
-      record = runRecordFor(job, {
-        status: 'failed', error: messageOf(err), fit: null, lost_share: null, warnings: [],
-        started_at: started.toISOString(), finished_at: finished.toISOString(), elapsed_s: (finished.getTime() - started.getTime()) / 1000, outputs: [],
-      });
     }
     if (signal.aborted) {
       unfinished.push(r.run);
-      return;
+      return; // left uncommitted: a rerun does it again
     }
     await commitRecord(runDir, record);
     records.set(r.run, record);
     processed++;
     if (record.status === 'failed') {
-      failed.push({ run: r.run, error: record.error ?? 'unknown' });
-      emit({ type: 'failed', run: r.run, error: record.error ?? 'unknown' });
+      const error = record.error ?? 'unknown';
+      failed.push({ run: r.run, error });
+      emit({ type: 'failed', run: r.run, error });
     } else {
-      const f = record.fit;
-      const est = f?.steady?.rate_deg_s ?? f?.spinup?.terminal_rate_deg_s ?? f?.spindown?.initial_rate_deg_s ?? null;
-      emit({ type: 'done', run: r.run, elapsed_s: record.elapsed_s ?? 0, model: f?.model ?? null, rate_deg_s: est?.value ?? null, lo_deg_s: est?.ci[0] ?? null, hi_deg_s: est?.ci[1] ?? null });
+      const rate = headlineRate(record);
+      emit({ type: 'done', run: r.run, elapsed_s: record.elapsed_s ?? 0, model: record.fit?.model ?? null, rate_deg_s: rate?.deg_s.value ?? null, lo_deg_s: rate?.deg_s.ci[0] ?? null, hi_deg_s: rate?.deg_s.ci[1] ?? null });
     }
   };
 

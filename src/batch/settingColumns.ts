@@ -11,10 +11,14 @@ export interface SettingColumn {
   apply(settings: RunSettings, value: unknown): void;
 }
 
+/** A plain decimal number (optional sign and exponent) as written in a cell, or NaN for anything else. */
+export function parseDecimal(text: string): number {
+  return /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(text) ? Number(text) : NaN;
+}
+
 /** Splits "a,b,c" (or ';' or spaces) into numbers; null when any part is not a finite number. */
 function numbers(text: string): number[] | null {
-  const parts = text.split(/[\s,;]+/).filter((s) => s !== '');
-  const values = parts.map((s) => (/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(s) ? Number(s) : NaN));
+  const values = text.split(/[\s,;]+/).filter((s) => s !== '').map(parseDecimal);
   return values.every(Number.isFinite) ? values : null;
 }
 

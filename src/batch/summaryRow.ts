@@ -18,7 +18,7 @@ export function formatNumber(x: number | null | undefined): string {
 }
 
 /** The rate a run is summarised by: the steady rate, a spin-up's terminal rate or a coast-down's initial rate. */
-function headlineRate(r: RunRecord): { kind: string; deg_s: Estimate; rpm: Estimate } | null {
+export function headlineRate(r: RunRecord): { kind: string; deg_s: Estimate; rpm: Estimate } | null {
   const f = r.fit;
   if (!f) return null;
   if (f.model === 'steady' && f.steady) return { kind: 'steady', deg_s: f.steady.rate_deg_s, rpm: f.steady.rate_rpm };
@@ -31,7 +31,6 @@ function headlineRate(r: RunRecord): { kind: string; deg_s: Estimate; rpm: Estim
 export function summaryRow(r: RunRecord): SummaryRow {
   const rate = headlineRate(r);
   const f = r.fit;
-  const warnings = [...new Set([...(r.warnings ?? []), ...(f?.diagnostics.warnings ?? [])])];
   return {
     run: r.run,
     direction: r.direction,
@@ -57,7 +56,7 @@ export function summaryRow(r: RunRecord): SummaryRow {
     spindown_viscous_per_s: formatNumber(f?.spindown?.viscous_per_s.value),
     spindown_stop_s: formatNumber(f?.spindown?.stop_s),
     lost_share: formatNumber(r.lost_share),
-    warnings: warnings.join('; '),
+    warnings: (r.warnings ?? []).join('; '),
     error: r.error ?? '',
     notes: r.notes,
   };

@@ -18,7 +18,7 @@ export function registerReport(program: Command): void {
     .description('rebuild summary.csv and batch.json from the run folders of a batch output folder (merging shards), then write one self-contained HTML report')
     .argument('<dir>', 'batch output folder (the one holding runs/)')
     .option('--out <file>', 'HTML file to write (default: <dir>/report.html)')
-    .option('--title <text>', 'report title (default names the folder)')
+    .option('--title <text>', 'report title (default names the manifest)')
     .option('--margin <deg_s>', 'equivalence margin in deg/s for "the reverse direction does not turn" (default: the margin the runs were fitted with)')
     .action(async (dir: string, o: ReportCliOptions) => {
       let isDir = false;

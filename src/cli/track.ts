@@ -40,7 +40,7 @@ export function registerTrack(program: Command): void {
     .option('--from <s>', 'start time, seconds')
     .option('--to <s>', 'end time, seconds')
     .option('--tilt <deg>', 'camera tilt from square-on, degrees (for runs too short to fit the view)')
-    .option('--quiet', 'print nothing but errors')
+    .option('--quiet', 'print nothing but errors (progress is shown only on a terminal)')
     .action(async (video: string, o: TrackCliOptions, command: Command) => {
       const g = globalOptions(command);
       let centre: { x_px: number; y_px: number } | undefined;
@@ -66,7 +66,7 @@ export function registerTrack(program: Command): void {
           ffmpeg: g.ffmpeg,
           ffprobe: g.ffprobe,
           signal: controller.signal,
-          onProgress: o.quiet
+          onProgress: o.quiet || !process.stderr.isTTY
             ? undefined
             : (p) => {
                 const now = Date.now();

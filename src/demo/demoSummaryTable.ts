@@ -15,7 +15,9 @@ export function demoSummaryTable(runs: DemoRun[], records: RunRecord[]): string 
   const rows = runs.map((d) => {
     const rec = byRun.get(d.run);
     const rate = rec ? reportedRate(rec) : null;
-    const digits = rate && Math.abs(rate.value) < 10 ? 3 : 2;
+    // enough decimals that the interval's half-width shows two significant digits
+    const half = rate ? (rate.hi - rate.lo) / 2 : 0;
+    const digits = rate && half > 0 ? Math.min(6, Math.max(1, 1 - Math.floor(Math.log10(half)))) : 3;
     return [
       d.run,
       d.direction,

@@ -20,7 +20,7 @@ export interface AngleNoiseModelOptions {
 }
 
 /** A walk part must lower the variogram misfit by this factor to be kept. */
-const WALK_GAIN = 1.1;
+const WALK_GAIN = 1.05;
 
 /** Model variogram: ½E[(u(t+τ) − u(t))²]·2 = 2σ² + 2s²(1 − e^{−τ/τ_c}) + qτ for τ > 0. */
 export function noiseVariogram(m: AngleNoiseModel, tau_s: number): number {
@@ -85,6 +85,8 @@ function solve(a: Float64Array, b: Float64Array, m: number): number[] | null {
  * squares (weights 1/(V̂(h)²·(1 + h)): relative error, down-weighting long lags whose estimates rest on
  * fewer independent increments); the best grid point wins. Correlation times are capped at a fraction of
  * the window (default 1/80): slower wander is attributed to the random-walk part (the conservative reading).
+ * The walk part is kept only if it lowers the weighted misfit by more than 5% (WALK_GAIN): in the seeded
+ * study a walk that fits white noise explained < 2% of the misfit yet widened the interval ~1.5×.
  * @param t_s frame times, s (increasing; relative to the window start is best)
  * @param y   angle, deg
  */

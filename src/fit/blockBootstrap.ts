@@ -7,7 +7,8 @@
  * Block length: the Politis & White (2004) rule for the circular block bootstrap, b = (2G²/D)^(1/3)·n^(1/3)
  * with D = (4/3)·g(0)² (as corrected by Patton, Politis & White 2009), evaluated for an AR(1) fitted to the
  * residuals, where G/g(0) = 2ρ/(1 − ρ²); so b = (6ρ²/(1 − ρ²)²)^(1/3)·n^(1/3). (Formulas written from memory.)
- * Seeded with pure-rand's xoroshiro128+, so the same inputs and seed give the same draws.
+ * Seeded with pure-rand's xoroshiro128+, so the same inputs and seed give the same draws. fitDynamicsCurve.ts uses it
+ * to resample the innovations of its autoregressive sieve bootstrap.
  */
 import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
 import { uniformInt } from 'pure-rand/distribution/uniformInt';

@@ -180,6 +180,7 @@ function coastDownStarts(t: Float64Array, y: Float64Array, count: number): Float
   const span = t[n - 1]!;
   const candidates: { rss: number; p: Float64Array }[] = [];
   const grad = new Float64Array(4);
+  const row = Float64Array.of(1, 0, 0);
   const kValues = [0];
   for (let a = 0; a < 14; a++) kValues.push((0.03 * 10 ** (a / 4.5)) / span);
   for (const k of kValues) {
@@ -190,8 +191,9 @@ function coastDownStarts(t: Float64Array, y: Float64Array, count: number): Float
       const atb = new Float64Array(3);
       let m = 0;
       for (let i = 0; i < n && t[i]! <= tEnd; i++, m++) {
-        const x = k * t[i]!;
-        const row = [1, t[i]! * phi1(x)[0], -t[i]! * t[i]! * phi2(x)[0]];
+        phiAll(k * t[i]!, PHI_SCRATCH);
+        row[1] = t[i]! * PHI_SCRATCH[0]!;
+        row[2] = -t[i]! * t[i]! * PHI_SCRATCH[2]!;
         for (let r = 0; r < 3; r++) {
           atb[r] = atb[r]! + row[r]! * y[i]!;
           for (let c2 = 0; c2 < 3; c2++) ata[r * 3 + c2] = ata[r * 3 + c2]! + row[r]! * row[c2]!;

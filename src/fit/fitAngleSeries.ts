@@ -114,7 +114,7 @@ function effectiveCount(residuals: Float64Array): number {
 }
 
 const METHOD_STEADY =
-  'steady rate by generalised least squares with a white + AR(1) + random-walk angle-noise model fitted to the variogram (Kalman filter on the real frame times), standard error by a delete-a-batch jackknife over 8 contiguous batches with a Student-t interval (7 df), zero test two-sided t, equivalence by two one-sided tests, minimum detectable rate (t_{1−α/2} + t_{0.8})·se';
+  'steady rate by generalised least squares with a white + AR(1) + random-walk angle-noise model fitted to the variogram (Kalman filter on the real frame times), standard error by a delete-a-batch jackknife over 8 contiguous batches with a Student-t interval (at most 7 df, fewer when a few batches dominate), zero test two-sided t, equivalence by two one-sided tests, minimum detectable rate (t_{1−α/2} + t_{0.8})·se';
 const METHOD_NONLINEAR = 'spin-up and coast-down by Levenberg–Marquardt least squares with autocorrelation-aware intervals';
 const METHOD_RATE = 'rate curve by local quadratic least squares in real time (Savitzky–Golay on non-uniform frames)';
 

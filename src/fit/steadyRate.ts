@@ -64,30 +64,76 @@ function slopeFromSums(s11: number, s12: number, s22: number, s1y: number, s2y: 
   return (s11 * s2y - s12 * s1y) / det;
 }
 
-/** v_b of glsSlope's degrees of freedom from the full and batch normal-equation sums [s11, s12, s22, …]. */
-function jackknifeShare(total: Float64Array, batch: Float64Array): number {
-  const g11 = total[0]!, g12 = total[1]!, g22 = total[2]!;
-  const b11 = batch[0]!, b12 = batch[1]!, b22 = batch[2]!;
-  const r11 = g11 - b11, r12 = g12 - b12, r22 = g22 - b22;
-  const rdet = r11 * r22 - r12 * r12;
+/**
+ * Satterthwaite (1946) degrees of freedom of the delete-a-batch jackknife variance when the whitened errors
+ * are white: the slope change from deleting batch b is δ_b = d_bᵀε with d_b[k] = x_kᵀu_b·[k ∉ b] − x_kᵀg,
+ * u_b = (G − G_b)⁻¹e₂, g = G⁻¹e₂, so the variance estimate is a quadratic form εᵀAε, A ∝ Σ_b (d_b − d̄)(d_b − d̄)ᵀ,
+ * and df = (tr A)²/tr(A²) = (tr C)²/tr(C²) with C the centred B×B matrix of inner products d_bᵀd_c, each a
+ * sum over batches a of (·)ᵀG_a(·). Equal, independent batches give B − 1; a trend fit leaning on its end
+ * batches gets fewer. The jackknife variance is biased upward (Efron & Stein 1981) — for a trend fit by tens
+ * of percent — so `scale` = Var(ω̂)/E[εᵀAε] = [G⁻¹]₂₂/tr A (≤ 1) removes that bias under the same model.
+ * @param grams per-batch Gram sums [s11, s12, s22, …] (first three entries used)
+ */
+function jackknifeDf(grams: Float64Array[]): { df: number; scale: number } {
+  const b = grams.length;
+  let g11 = 0, g12 = 0, g22 = 0;
+  for (const a of grams) {
+    g11 += a[0]!;
+    g12 += a[1]!;
+    g22 += a[2]!;
+  }
   const gdet = g11 * g22 - g12 * g12;
-  if (!(rdet > 0) || !(gdet > 0)) return 0;
-  // u = (G − G_b)⁻¹ e₂
-  const u1 = -r12 / rdet;
-  const u2 = r11 / rdet;
-  const w1 = b11 * u1 + b12 * u2; // G_b u
-  const w2 = b12 * u1 + b22 * u2;
-  const quad = u1 * w1 + u2 * w2;
-  const back = (g22 * w1 * w1 - 2 * g12 * w1 * w2 + g11 * w2 * w2) / gdet; // (G_b u)ᵀ G⁻¹ (G_b u)
-  return Math.max(0, quad - back);
+  const plain = { df: b - 1, scale: 1 };
+  if (!(gdet > 0)) return plain;
+  const g: [number, number] = [-g12 / gdet, g11 / gdet];
+  const u: [number, number][] = grams.map((a) => {
+    const r11 = g11 - a[0]!, r12 = g12 - a[1]!, r22 = g22 - a[2]!;
+    const rdet = r11 * r22 - r12 * r12;
+    return rdet > 0 ? [-r12 / rdet, r11 / rdet] : [Number.NaN, Number.NaN];
+  });
+  if (u.some((x) => !Number.isFinite(x[0]))) return plain;
+  const quad = (a: Float64Array, p: [number, number], q: [number, number]): number =>
+    p[0] * (a[0]! * q[0] + a[1]! * q[1]) + p[1] * (a[1]! * q[0] + a[2]! * q[1]);
+  const m = new Float64Array(b * b);
+  for (let i = 0; i < b; i++) {
+    for (let j = i; j < b; j++) {
+      let sum = 0;
+      for (let a = 0; a < b; a++) {
+        const p: [number, number] = a !== i ? [u[i]![0] - g[0], u[i]![1] - g[1]] : [-g[0], -g[1]];
+        const q: [number, number] = a !== j ? [u[j]![0] - g[0], u[j]![1] - g[1]] : [-g[0], -g[1]];
+        sum += quad(grams[a]!, p, q);
+      }
+      m[i * b + j] = sum;
+      m[j * b + i] = sum;
+    }
+  }
+  // centre: C = (I − J/B) M (I − J/B)
+  const rowMean = new Float64Array(b);
+  let all = 0;
+  for (let i = 0; i < b; i++) {
+    for (let j = 0; j < b; j++) rowMean[i]! += m[i * b + j]! / b;
+    all += rowMean[i]! / b;
+  }
+  let tr = 0;
+  let tr2 = 0;
+  for (let i = 0; i < b; i++) {
+    for (let j = 0; j < b; j++) {
+      const c = m[i * b + j]! - rowMean[i]! - rowMean[j]! + all;
+      if (i === j) tr += c;
+      tr2 += c * c;
+    }
+  }
+  if (!(tr2 > 0) || !(tr > 0)) return plain;
+  const trA = ((b - 1) / b) * tr;
+  return { df: Math.max(1, Math.min(b - 1, (tr * tr) / tr2)), scale: Math.min(1, g11 / gdet / trA) };
 }
 
 /**
  * Generalised least squares of y = c + ω·t + u on rows lo…hi−1 for the given noise model (kalmanWhiten).
  * Standard error by the delete-a-batch jackknife over B contiguous batches of the whitened rows (the block
  * jackknife for dependent data, Künsch 1989, Ann. Statist. 17:1217): ω̂_(−b) refitted without batch b,
- * Var(ω̂) ≈ (B−1)/B·Σ_b (ω̂_(−b) − ω̄)², Student-t with B − 1 df reduced for unequal batch influence
- * (see the df comment below; fixed-b inference with few batches).
+ * Var(ω̂) ≈ (B−1)/B·Σ_b (ω̂_(−b) − ω̄)² times a design factor that removes the jackknife's upward bias, and
+ * Student-t with the Satterthwaite df of that variance (jackknifeDf; at most B − 1; fixed-b inference).
  * The jackknife accounts for the high leverage of the end batches in a trend fit, which plain batch means
  * of the score do not (they under-cover by several points). Whatever slow wander the noise model misses stays
  * in the batches and widens the interval.
@@ -123,15 +169,8 @@ function glsSlope(t: Float64Array, y: Float64Array, lo: number, hi: number, mode
   );
   const mean = leaveOut.reduce((a, v) => a + v, 0) / b;
   const varSlope = ((b - 1) / b) * leaveOut.reduce((a, v) => a + (v - mean) ** 2, 0);
-  // Design-based degrees of freedom: under white whitened errors, the slope change from deleting batch b has
-  // variance ∝ v_b = uᵀG_b u − (G_b u)ᵀG⁻¹(G_b u), u = (G − G_b)⁻¹e₂ (G, G_b the full and batch Gram
-  // matrices). Unequal v_b (a trend fit leans on its end batches) leave fewer effective degrees of freedom:
-  // df = (B − 1)·(Σv)²/(B·Σv²), a Satterthwaite (1946) style correction; B − 1 when all v_b are equal.
-  const v = sums.map((acc) => jackknifeShare(total, acc));
-  const sv = v.reduce((a, x) => a + x, 0);
-  const sv2 = v.reduce((a, x) => a + x * x, 0);
-  const df = sv2 > 0 && sv > 0 ? Math.max(1, ((b - 1) * sv * sv) / (b * sv2)) : b - 1;
-  return { slope: c1, se: Math.sqrt(varSlope), df, intercept: c0, batches: b, modelSe: fit.se[1]! };
+  const { df, scale } = jackknifeDf(sums);
+  return { slope: c1, se: Math.sqrt(varSlope * scale), df, intercept: c0, batches: b, modelSe: fit.se[1]! };
 }
 
 function estimate(value: number, se: number, df: number, level: number): Estimate {
@@ -152,7 +191,7 @@ function estimate(value: number, se: number, df: number, level: number): Estimat
  *    For white noise this is ordinary least squares (efficient: the Cramér–Rao bound); for a random walk it
  *    is the mean of the increments; in between it weighs both continuously — no switch between regimes.
  * 3. Standard error: delete-a-batch (block) jackknife over B contiguous batches of the whitened rows,
- *    Student-t with B − 1 df (glsSlope). The noise model only has to be good enough for efficiency; the
+ *    Student-t with up to B − 1 df (glsSlope). The noise model only has to be good enough for efficiency; the
  *    interval's validity rests mostly on the batches, so slow wander the model misses still widens it
  *    (not fully: when strong AR noise hides a random walk, coverage drops to about 92% — bench/RESULTS.md).
  *    B = 8: fewer batches were no better in the seeded study, more under-covered under a wandering rate.

@@ -8,6 +8,8 @@ const SCHEMA = 'https://vega.github.io/schema/vega-lite/v6.json';
 
 interface MarkRow {
   x: number | string;
+  /** Position beside the setting on a categorical axis: forward runs, forward pooled, reverse pooled, reverse runs. */
+  slot: string;
   direction: Direction;
   kind: 'run' | 'pooled';
   rate: number;
@@ -20,9 +22,9 @@ const directionScale = {
   shape: { domain: ['forward', 'reverse'], range: [SHAPES.forward, SHAPES.reverse] },
 };
 
-/** Whether every compared setting is a number (else settings are shown as labels). */
+/** Whether the settings make a numeric axis: all numbers, at least two different (else they are shown as labels). */
 function numericSettings(summary: ComparisonSummary): boolean {
-  return summary.settings.length > 0 && summary.settings.every((s) => s.setting !== null);
+  return summary.settings.length > 0 && summary.settings.every((s) => s.setting !== null) && new Set(summary.settings.map((s) => s.setting)).size >= 2;
 }
 
 /** Label of a (group, setting) used on a categorical axis. */
@@ -43,8 +45,9 @@ function markRows(summary: ComparisonSummary, directions: Direction[]): MarkRow[
       const sign = d === 'forward' ? -1 : 1;
       const x0 = numeric ? s.setting! : settingLabel(s.group, s.setting, s.setting_unit);
       const at = (k: number): number | string => (numeric ? (x0 as number) + sign * span * (0.012 + 0.008 * k) : x0);
-      side.runs.forEach((r, k) => rows.push({ x: at(k + 1), direction: d, kind: 'run', rate: r.estimate.value_deg_s, lo: r.ci_deg_s[0], hi: r.ci_deg_s[1] }));
-      rows.push({ x: numeric ? (x0 as number) + sign * span * 0.004 : x0, direction: d, kind: 'pooled', rate: side.pooled.value_deg_s, lo: side.pooled.ci_deg_s[0], hi: side.pooled.ci_deg_s[1] });
+      const slotOf = (k: number | null): string => (d === 'forward' ? (k === null ? 'f~' : `f${String(k).padStart(3, '0')}`) : k === null ? 'r!' : `r${String(999 - k).padStart(3, '0')}`);
+      side.runs.forEach((r, k) => rows.push({ x: at(k + 1), slot: slotOf(k), direction: d, kind: 'run', rate: r.estimate.value_deg_s, lo: r.ci_deg_s[0], hi: r.ci_deg_s[1] }));
+      rows.push({ x: numeric ? (x0 as number) + sign * span * 0.004 : x0, slot: slotOf(null), direction: d, kind: 'pooled', rate: side.pooled.value_deg_s, lo: side.pooled.ci_deg_s[0], hi: side.pooled.ci_deg_s[1] });
     }
   }
   return rows;
@@ -55,15 +58,18 @@ function rateVsSetting(summary: ComparisonSummary, directions: Direction[], yTit
   const unit = summary.settings[0]?.setting_unit ?? '';
   const x = numeric
     ? { field: 'x', type: 'quantitative', title: `setting${unit ? ` (${unit})` : ''}`, scale: { zero: false, padding: 16 } }
-    : { field: 'x', type: 'nominal', title: 'setting', axis: { labelAngle: -30, labelLimit: 160 } };
-  const xOffset = numeric ? {} : { xOffset: { field: 'direction', type: 'nominal', scale: { domain: directions } } };
+    : { field: 'x', type: 'nominal', title: 'setting', axis: { labelAngle: summary.settings.length <= 4 ? 0 : -30, labelLimit: summary.settings.length <= 4 ? 520 / summary.settings.length : 160 } };
+  const rows = markRows(summary, directions);
+  // slots sort forward runs, forward pooled ('f~'), reverse pooled ('r!'), reverse runs (character order ! < 0–9 < ~)
+  const slots = [...new Set(rows.map((r) => r.slot))].sort((a, b) => (a[0] !== b[0] ? (a[0] === 'f' ? -1 : 1) : a < b ? -1 : 1));
+  const xOffset = numeric ? {} : { xOffset: { field: 'slot', type: 'nominal', scale: { domain: slots, paddingInner: 0.2 } } };
   const color = { field: 'direction', type: 'nominal', title: 'direction', scale: { domain: directions, range: directions.map((d) => PALETTE[d]) } };
   const shape = { field: 'direction', type: 'nominal', title: 'direction', scale: { domain: directions, range: directions.map((d) => SHAPES[d]) } };
   return {
     $schema: SCHEMA,
     width,
     height: 260,
-    data: { values: markRows(summary, directions) },
+    data: { values: rows },
     layer: [
       { data: { values: [{ y: 0 }] }, mark: { type: 'rule', color: PALETTE.muted, strokeDash: [2, 2] }, encoding: { y: { field: 'y', type: 'quantitative' } } },
       { transform: [{ filter: "datum.kind === 'run'" }], mark: { type: 'rule', strokeWidth: 1, opacity: 0.8 }, encoding: { x, ...xOffset, y: { field: 'lo', type: 'quantitative', title: yTitle }, y2: { field: 'hi' }, color } },

@@ -10,7 +10,7 @@ import { comparisonTables, runAnchor } from './renderComparisonSection.js';
 import { chartFigure, renderRunSection } from './renderRunSection.js';
 
 export interface RenderOptions {
-  /** Report title; default names the batch folder. */
+  /** Report title; default names the manifest (or the batch folder). */
   title?: string;
   /** Folder the HTML will be written to (links to run files are relative to it); default the batch folder. */
   report_dir?: string;
@@ -28,7 +28,8 @@ function when(iso: string): string {
 
 /** Renders the whole report to one self-contained HTML string: no scripts, fonts or styles from elsewhere. */
 export async function renderReport(data: ReportData, options: RenderOptions = {}): Promise<string> {
-  const title = options.title ?? `Rotation runs in ${basename(data.out_dir)}: forward and reverse compared`;
+  const source = data.manifests.length === 1 ? basename(data.manifests[0]!.path).replace(/\.[^.]*$/, '') : basename(data.out_dir);
+  const title = options.title ?? `${source}: forward and reverse runs compared`;
   const reportDir = options.report_dir ?? data.out_dir;
   const summary = buildComparison(data.runs, { level: options.level, margin_deg_s: options.margin_deg_s });
   const ok = data.runs.filter((r) => r.record.status === 'ok').length;

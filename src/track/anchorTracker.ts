@@ -79,7 +79,7 @@ function checkRect(name: string, rect: PixelRect): void {
 /**
  * Measures camera motion (shake, drift, a small roll of the camera) from fixed scene regions: each
  * region is found by an exhaustive whole-pixel normalised cross-correlation search around the previous
- * frame's motion, then translation, rotation and a brightness gain/offset are refined together by
+ * frame's motion (±3 px first, the whole search_px range when the best match lies on that edge or is poor), then translation, rotation and a brightness gain/offset are refined together by
  * Gauss–Newton on the smoothed pixels (registerRigid). Every frame is registered against the first
  * frame's content, so the motion does not drift.
  */
@@ -144,7 +144,13 @@ export function createAnchorTracker(options: AnchorTrackerOptions): AnchorTracke
         const margin = searchPx + 3 + turnMargin;
         const region = smoothRegion(frame, { x: rect.x + pdx - margin, y: rect.y + pdy - margin, w: rect.w + 2 * margin, h: rect.h + 2 * margin }, sigma);
         if (!region) return { ...lost };
-        const match = searchTranslation(patches[k], region, { predicted_dx_px: pdx, predicted_dy_px: pdy, radius_px: searchPx });
+        // Near the prediction first (cheap); the whole range only if the best match sits on that small window's edge or is poor.
+        const near = Math.min(3, searchPx);
+        let match = searchTranslation(patches[k], region, { predicted_dx_px: pdx, predicted_dy_px: pdy, radius_px: near });
+        const onEdge = Math.abs(Math.round(match.dx_px) - pdx) >= near || Math.abs(Math.round(match.dy_px) - pdy) >= near;
+        if (searchPx > near && (onEdge || !(match.score >= 0.9))) {
+          match = searchTranslation(patches[k], region, { predicted_dx_px: pdx, predicted_dy_px: pdy, radius_px: searchPx });
+        }
         if (!(match.score >= minQuality)) return { ...lost };
         found.push({ x_px: centres[k].x_px + match.dx_px, y_px: centres[k].y_px + match.dy_px });
         regions.push(region);

@@ -19,7 +19,11 @@ export interface TextureTrackerOptions {
   reference_refresh_deg?: number;
   /** Correlation under which the tracker looks for a better reference or makes the current frame one. Default 0.8. */
   refresh_below?: number;
-  /** Correlation under which outliers (bubbles, glare) are masked and the shift measured again. Default 0.995. */
+  /**
+   * Correlation under which outliers (bubbles, glare) are looked for and masked, and the shift measured
+   * again; it is also looked for when a frame's correlation falls 0.005 below the median of the last 15
+   * frames (noise and compression lower every frame's correlation alike). Default 0.995.
+   */
   robust_below?: number;
   /** Successive frames below refresh_below before the current frame becomes a new reference (a passing bubble should not). Default 5. */
   refresh_after_frames?: number;
@@ -90,13 +94,17 @@ function wrapDeg(a: number): number {
  * rows' energy (so lighting gain and offset drop out), refined below one bin (parabolic fit, then
  * Newton steps on the Fourier interpolant).
  *
+ * Outliers: when the correlation drops (see robust_below), samples that do not turn with the hub (a
+ * bubble, glare) are given Tukey weights of 0 (textureOutlierWeights), both images are masked alike and
+ * the shift is measured again until it settles; the reported quality stays the unmasked correlation.
+ * A frame with a masked part never becomes a reference.
+ *
  * References (keyframe chain, so errors do not random-walk frame by frame): the first frame stays the
  * reference while its correlation is at least refresh_below. When it drops, every kept reference is
  * tried and the best one used; only if none reaches refresh_below for refresh_after_frames frames in a
  * row (a lasting change of appearance, not a passing bubble) does the current frame become a new
- * reference, its angle measured against the best one. A later frame
- * goes back to an older reference (the first frame first) as soon as it correlates well again, so a
- * passing bubble adds no lasting error.
+ * reference, its angle measured against the best one. A later frame goes back to the first frame as
+ * soon as it correlates well again, so a passing bubble adds no lasting error.
  *
  * Centre: an annulus sampled around a wrong centre is not a pure circular shift of the reference, so
  * the given centre is refined from the texture (refineTextureCentre: rigid registration of the first
@@ -144,8 +152,9 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
   let lastStep = 0;
   let framesSinceGood = 0;
   let framesBelow = 0;
+  const recentQuality: number[] = [];
 
-  const measure = (ref: Reference, cur: Unwrapped, predicted_deg: number): { angle_deg: number; quality: number; masked_share: number } => {
+  const measure = (ref: Reference, cur: Unwrapped, predicted_deg: number, robust: boolean): { angle_deg: number; quality: number; masked_share: number } => {
     const predictedShift = wrapDeg(predicted_deg - ref.angle_deg);
     const est = estimator.estimate(ref.spectra, cur.spectra, {
       predicted_bins: predictedShift / degPerBin,
@@ -154,16 +163,21 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
     if (!Number.isFinite(est.shift_bins)) return { angle_deg: Number.NaN, quality: 0, masked_share: 1 };
     let shift = est.shift_bins;
     let masked = 0;
-    if (est.correlation < robustBelow && est.correlation >= minQuality) {
-      // Mask what does not turn with the hub (Tukey weights on the residual) and measure again, twice.
+    if (robust && est.correlation < robustBelow && est.correlation >= minQuality) {
+      // Mask what does not turn with the hub (Tukey weights on the residual) and measure again, until it settles.
+      let w = outlierWeights(cur.polar, ref.polar, rows, bins, shift);
       for (let pass = 0; pass < 5; pass++) {
-        const w = outlierWeights(cur.polar, ref.polar, rows, bins, shift);
+        const share = w.reduce((n, v) => n + (v < 0.5 ? 1 : 0), 0) / w.length;
+        if (share < 0.002) break; // nothing stands out: the plain estimate stands
         const curMasked = estimator.spectra(applyRowWeights(cur.polar, w, rows, bins), rows);
         const refMasked = estimator.spectra(applyRowWeights(ref.polar, shiftRowWeights(w, rows, bins, shift), rows, bins), rows);
         const again = estimator.estimate(refMasked, curMasked, { predicted_bins: shift, window_bins: 2 });
         if (!Number.isFinite(again.shift_bins) || again.correlation < est.correlation) break;
+        const step = Math.abs(again.shift_bins - shift);
         shift = again.shift_bins;
-        masked = w.reduce((n, v) => n + (v < 0.5 ? 1 : 0), 0) / w.length;
+        masked = share;
+        if (step < 1e-3) break;
+        w = outlierWeights(cur.polar, ref.polar, rows, bins, shift);
       }
     }
     const shiftDeg = shift * degPerBin;
@@ -209,13 +223,14 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
       }
       framesSinceGood++;
       const predicted = lastAngle + lastStep * framesSinceGood;
-      let best = measure(references[active], current, predicted);
+      // Choose the reference on plain correlations; mask outliers only against the one chosen.
+      let best = measure(references[active], current, predicted, false);
       let bestIndex = active;
       if (best.quality < refreshBelow) {
         // Try every kept reference, the first frame first.
         for (let i = 0; i < references.length; i++) {
           if (i === active) continue;
-          const m = measure(references[i], current, predicted);
+          const m = measure(references[i], current, predicted, false);
           if (m.quality > best.quality) {
             best = m;
             bestIndex = i;
@@ -223,7 +238,7 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
         }
       } else if (active !== 0 && !Number.isFinite(refreshDeg)) {
         // Go back to the first frame as soon as it matches well again.
-        const root = measure(references[0], current, predicted);
+        const root = measure(references[0], current, predicted, false);
         if (root.quality >= refreshBelow) {
           best = root;
           bestIndex = 0;
@@ -231,6 +246,10 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
       }
       if (!(best.quality >= minQuality) || !Number.isFinite(best.angle_deg)) return { angle_deg: Number.NaN, quality: 0 };
       active = bestIndex;
+      const typical = recentQuality.length >= 5 ? [...recentQuality].sort((a, b) => a - b)[recentQuality.length >> 1] : 1;
+      recentQuality.push(best.quality);
+      if (recentQuality.length > 15) recentQuality.shift();
+      if (best.quality < Math.min(robustBelow, typical - 0.005)) best = measure(references[active], current, predicted, true);
       if (first && nextRefine < refineAt.length && best.quality >= refreshBelow && Math.abs(best.angle_deg) >= refineAt[nextRefine]) {
         // Refine the centre from the first frame and this one, then restart from the first frame as the only reference.
         const found = refineTextureCentre(first.frame, frame, {
@@ -247,7 +266,7 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
           references.length = 0;
           addReference(unwrap(first.frame, first.dx_px, first.dy_px), 0);
           current = unwrap(frame, dx, dy);
-          const again = measure(references[0], current, best.angle_deg);
+          const again = measure(references[0], current, best.angle_deg, true);
           if (again.quality >= minQuality && Number.isFinite(again.angle_deg)) best = again;
           active = 0;
           refinements++;

@@ -114,7 +114,10 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
 
   let index = 0;
   let decoded = 0;
-  let frame = new Uint8Array(frameBytes);
+  // Every byte is overwritten from the pipe, so the buffers skip zero-filling (a plain Uint8Array
+  // view over an unpooled, uninitialised ArrayBuffer).
+  const newFrame = (): Uint8Array => { const b = Buffer.allocUnsafeSlow(frameBytes); return new Uint8Array(b.buffer, b.byteOffset, frameBytes); };
+  let frame = newFrame();
   let filled = 0;
   const run = runTool(ffmpeg.path, args, { tool: 'ffmpeg', file: path, signal: options.signal, onStderrLine, onStderrEnd });
   try {
@@ -133,7 +136,7 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
         }
         decoded += 1;
         const data = frame;
-        frame = new Uint8Array(frameBytes);
+        frame = newFrame();
         filled = 0;
         if (t_s < from_s) continue;
         if (t_s >= to_s) return;

@@ -67,7 +67,7 @@ describe('batch through the real pipeline', () => {
 
     // a second batch finds nothing to do
     const again = spawnSync(process.execPath, [bin, 'batch', 'day.csv', '--out', out, '--json'], { cwd: dir, encoding: 'utf8' });
-    expect(again.status).toBe(0);
+    expect(again.status, again.stderr).toBe(0);
     expect(again.stdout.split('\n').filter((l) => l.includes('"event":"cached"')).length).toBe(6);
 
     // killed with SIGKILL mid-run, then run again: the same summary as the uninterrupted batch
@@ -83,7 +83,7 @@ describe('batch through the real pipeline', () => {
     });
     expect(await readdir(killed)).not.toContain('summary.csv');
     const rerun = spawnSync(process.execPath, [bin, 'batch', 'day.csv', '--out', killed, '--jobs', '2', '--quiet'], { cwd: dir, encoding: 'utf8' });
-    expect(rerun.status).toBe(0);
+    expect(rerun.status, rerun.stderr).toBe(0);
     expect(await readFile(join(killed, 'summary.csv'), 'utf8')).toBe(await readFile(join(out, 'summary.csv'), 'utf8'));
     const leftovers = (await readdir(killed, { recursive: true })).filter((f) => String(f).endsWith('.tmp'));
     expect(leftovers).toEqual([]);
@@ -102,7 +102,7 @@ describe('batch through the real pipeline', () => {
     for (const s of shards) expect(s.code).toBe(0);
     expect(await readdir(sharded)).toEqual(['runs']); // shards write runs only
     const merge = spawnSync(process.execPath, [bin, 'report', sharded], { cwd: dir, encoding: 'utf8' });
-    expect(merge.status).toBe(0);
+    expect(merge.status, merge.stderr).toBe(0);
     expect(await readFile(join(sharded, 'summary.csv'), 'utf8')).toBe(await readFile(join(dir, 'out', 'summary.csv'), 'utf8'));
   });
 });

@@ -132,7 +132,8 @@ describe('runBatch with a stand-in processor', () => {
     await writeFile(join(out, 'runs', 'f1a', 'my-notes.txt'), 'keep me');
     const events: BatchEvent[] = [];
     await runBatch(manifest, { out, processor: fake(), onEvent: (e) => events.push(e) });
-    expect(events.find((e) => e.type === 'cleaned')).toEqual({ type: 'cleaned', files: [join(out, 'runs', 'f1a', '.fit.json.999.abcd.tmp'), join(out, '.summary.csv.999.abcd.tmp')] });
+    const cleaned = events.find((e) => e.type === 'cleaned') as { files: string[] } | undefined;
+    expect(cleaned?.files.sort()).toEqual([join(out, '.summary.csv.999.abcd.tmp'), join(out, 'runs', 'f1a', '.fit.json.999.abcd.tmp')].sort());
     expect((await readdir(out)).sort()).toEqual(['batch.json', 'runs', 'summary.csv']);
     expect((await readdir(join(out, 'runs', 'f1a'))).sort()).toContain('my-notes.txt');
   });
@@ -177,6 +178,19 @@ describe('runBatch with a stand-in processor', () => {
     const { records } = await rebuildSummary(out);
     expect(records.map((r: RunRecord) => r.run)).toEqual(SIX.map(([r]) => r));
     expect(await readFile(join(out, 'summary.csv'), 'utf8')).toBe(await readFile(join(whole, 'summary.csv'), 'utf8'));
+  });
+
+  it('a shard removes temporary files only in its own runs\' folders, never another shard\'s', async () => {
+    const { manifest, out } = await day(SIX);
+    const other = SIX.map(([r]) => r).find((r) => shardOf(r, 3) !== 1)!;
+    const own = SIX.map(([r]) => r).find((r) => shardOf(r, 3) === 1)!;
+    await mkdir(join(out, 'runs', other), { recursive: true });
+    await mkdir(join(out, 'runs', own), { recursive: true });
+    await writeFile(join(out, 'runs', other, '.angle.csv.1.abcd.tmp'), 'being written by another shard');
+    await writeFile(join(out, 'runs', own, '.angle.csv.1.abcd.tmp'), 'left by a killed run');
+    await runBatch(manifest, { out, shard: parseShard('1/3'), processor: fake() });
+    expect(await readdir(join(out, 'runs', other))).toEqual(['.angle.csv.1.abcd.tmp']);
+    expect(await readdir(join(out, 'runs', own))).not.toContain('.angle.csv.1.abcd.tmp');
   });
 
   it('parses --shard and rejects parts outside 1..n', () => {

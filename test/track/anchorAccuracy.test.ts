@@ -15,7 +15,7 @@ const shaky: SynthSpecInput = {
   seed: 21,
   duration_s: 1.5,
   fps: 30,
-  profile: { kind: 'steady', rate_deg_s: 40 },
+  profile: { kind: 'steady', rate_deg_s: 300 },
   realism: { shake: { translation_px: 1.5, rotation_deg: 0.15, bandwidth_hz: 2 } },
 };
 
