@@ -1,5 +1,6 @@
 import { parse } from 'csv-parse/sync';
 import type { AngleTable, RateTable } from './ReportData.js';
+import { parseDecimal } from './parseDecimal.js';
 
 /** Thrown for a table that does not have the columns the report needs. */
 export class TableFormatError extends Error {}
@@ -44,10 +45,9 @@ function readColumns(text: string, wanted: readonly { name: string; text?: boole
         if (comma < 0 || comma > stop) comma = stop;
         const k = target[f]!;
         if (k >= 0) {
-          const field = from < comma ? text.slice(from, comma) : '';
           const num = numeric[k];
-          if (num) num[row] = toNumber(field);
-          else texts[k]!.push(field);
+          if (num) num[row] = parseDecimal(text, from, comma);
+          else texts[k]!.push(from < comma ? text.slice(from, comma) : '');
         }
         from = comma + 1;
       }

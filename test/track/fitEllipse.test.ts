@@ -37,7 +37,7 @@ describe('fitEllipse (Halíř–Flusser direct least squares)', () => {
   // Reference: OpenCV 4.5 cv.fitEllipse (npm @techstark/opencv-js), a different least-squares ellipse fit;
   // OpenCV reports full axes and the width axis angle clockwise as displayed.
   it('agrees with OpenCV fitEllipse on noisy points', async () => {
-    const cv = await openCvReference();
+    const { cv } = await openCvReference();
     const { x, y } = ellipsePoints(300, 200, 120, 80, -40, 0.3, 0.3 + 2 * Math.PI, 400, 0.3, 7);
     const flat: number[] = [];
     for (let i = 0; i < x.length; i++) flat.push(x[i], y[i]);

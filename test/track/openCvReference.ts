@@ -11,13 +11,16 @@ export interface Cv {
 
 let loaded: Promise<{ cv: Cv }> | undefined;
 
-/** The OpenCV module, initialised once per test file (wrapped: the module object is itself a thenable). */
-export async function openCvReference(): Promise<Cv> {
+/**
+ * The OpenCV module, initialised once per test file. It comes wrapped in `{ cv }` because the module
+ * object is itself a thenable: returning it from an async function would never settle.
+ */
+export function openCvReference(): Promise<{ cv: Cv }> {
   loaded ??= (async () => {
-    // Node's own require: the vitest transform of the 10 MB wasm bundle is very slow
+    // loaded with Node's own require, outside vitest's module transform
     const cv = createRequire(import.meta.url)('@techstark/opencv-js') as Cv;
     if (!cv.Mat) await new Promise<void>((resolve) => (cv.onRuntimeInitialized = resolve));
     return { cv };
   })();
-  return (await loaded).cv;
+  return loaded;
 }

@@ -157,3 +157,17 @@ describe('trackVideo on a very slow run', () => {
     expect(Math.abs(sta / stt + 0.5)).toBeLessThan(0.05);
   });
 });
+
+describe('trackVideo near the aliasing limit', () => {
+  it('follows 80° per frame and warns that the rotation approaches the aliasing limit', async () => {
+    const clip = await renderClip(
+      { seed: 14, width_px: 640, height_px: 480, fps: 30, duration_s: 1.5, hub: { cx_px: 320, cy_px: 240, radius_px: 190, level: 110 }, markers: [{ radius_px: 150, size_px: 7, kind: 'bright' }], profile: { kind: 'steady', rate_deg_s: 2400 }, realism: { noise_sigma: 2, crf: 23 } },
+      join(dir, 'fast.mp4'),
+    );
+    const r = await trackVideo(clip.videoPath, { roi: roiVga });
+    const err = offsetRemovedErrors(r.series.frame, r.series.angle_deg, clip.truth.angle_deg);
+    console.log(`80°/frame: RMS ${rms(err).toFixed(4)}°, lost ${r.summary.frames.lost}; warnings: ${r.summary.warnings.join(' | ')}`);
+    expect(rms(err)).toBeLessThan(0.1);
+    expect(r.summary.warnings.join(' ')).toMatch(/aliasing limit/);
+  });
+});
