@@ -1,21 +1,12 @@
-import type { Direction } from './RunRecord.js';
+import type { RunIdentity } from './RunRecord.js';
 import type { RunSettings } from './RunSettings.js';
 
 /** One validated manifest row: a run to process. */
-export interface ManifestRun {
+export interface ManifestRun extends RunIdentity {
   /** Data row, 1 = first row under the header; orders the summary. */
   row: number;
   /** Line of the manifest file the row starts on (1 = header). */
   line: number;
-  run: string;
-  /** Video path as written, and resolved against the manifest's folder. */
-  video: string;
-  video_abs: string;
-  direction: Direction;
-  setting: number | null;
-  setting_unit: string;
-  group: string;
-  notes: string;
   /** Effective settings: built-in defaults, then the defaults file, then the row's own columns. */
   settings: RunSettings;
 }

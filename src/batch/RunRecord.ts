@@ -6,7 +6,8 @@ export type Direction = 'forward' | 'reverse';
  * runs/<run>/run.json: the source of truth for one run of a batch. summary.csv and batch.json are
  * rebuilt from the set of run.json files, which is how shards written into one folder are merged.
  */
-export interface RunRecord {
+/** What the manifest says about a run: its id, its video and how it was set up. */
+export interface RunIdentity {
   run: string;
   /** Video path as given in the manifest, and resolved absolute path. */
   video: string;
@@ -16,6 +17,9 @@ export interface RunRecord {
   setting_unit: string;
   group: string;
   notes: string;
+}
+
+export interface RunRecord extends RunIdentity {
   status: 'ok' | 'failed';
   /** One sentence, when failed. */
   error: string | null;

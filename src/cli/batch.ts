@@ -1,10 +1,10 @@
 import type { Command } from 'commander';
-import { InputError } from '../errors.js';
 import { createBatchDisplay, type DisplayMode } from '../batch/batchDisplay.js';
 import { runBatch } from '../batch/runBatch.js';
 import { parseShard } from '../batch/shard.js';
 import { writeReport } from '../report/writeReport.js';
 import { globalOptions } from './globalOptions.js';
+import { parseJobs } from './parseJobs.js';
 
 interface BatchCliOptions {
   out?: string;
@@ -31,11 +31,7 @@ export function registerBatch(program: Command): void {
     .option('--json', 'print one JSON object per event on stdout')
     .action(async (manifest: string, o: BatchCliOptions, command: Command) => {
       const g = globalOptions(command);
-      let jobs: number | undefined;
-      if (o.jobs !== undefined) {
-        jobs = /^\d+$/.test(o.jobs.trim()) ? Number(o.jobs) : NaN;
-        if (!Number.isInteger(jobs) || jobs < 1) throw new InputError(`--jobs "${o.jobs}" is not a number of parallel runs; give a whole number of 1 or more`);
-      }
+      const jobs = parseJobs(o.jobs);
       const shard = o.shard !== undefined ? parseShard(o.shard) : null;
       const mode: DisplayMode = o.json ? 'json' : o.quiet ? 'quiet' : process.stderr.isTTY ? 'bars' : 'lines';
       const display = createBatchDisplay(mode, process.stderr);

@@ -1,9 +1,9 @@
 import type { Command } from 'commander';
-import { InputError } from '../errors.js';
 import { createBatchDisplay } from '../batch/batchDisplay.js';
 import { runDemo } from '../demo/runDemo.js';
 import { demoSummaryTable } from '../demo/demoSummaryTable.js';
 import { globalOptions } from './globalOptions.js';
+import { parseJobs } from './parseJobs.js';
 
 /** `revtrace demo`: renders an invented day of footage, runs the batch and the report, prints a summary. */
 export function registerDemo(program: Command): void {
@@ -15,11 +15,7 @@ export function registerDemo(program: Command): void {
     .option('--jobs <n>', 'runs processed at once (default: one per core)')
     .action(async (o: { out: string; quick?: boolean; jobs?: string }, command: Command) => {
       const g = globalOptions(command);
-      let jobs: number | undefined;
-      if (o.jobs !== undefined) {
-        jobs = /^\d+$/.test(o.jobs.trim()) ? Number(o.jobs) : NaN;
-        if (!Number.isInteger(jobs) || jobs < 1) throw new InputError(`--jobs "${o.jobs}" is not a number of parallel runs; give a whole number of 1 or more`);
-      }
+      const jobs = parseJobs(o.jobs);
       const started = Date.now();
       const display = createBatchDisplay(process.stderr.isTTY ? 'bars' : 'lines', process.stderr);
       let outcome;

@@ -15,10 +15,10 @@
  */
 import type { SpinDownResult } from './FitReport.js';
 import type { ModelFit } from './ModelFit.js';
-import { type CurveModel, type DynamicsCurveOptions, fitDynamicsCurve, thinSeries } from './fitDynamicsCurve.js';
+import { type CurveModel, type DynamicsCurveOptions, fitDynamicsCurve } from './fitDynamicsCurve.js';
 import { estimateFromCurve } from './curveEstimate.js';
 import { batchMeansEffectiveSize } from './batchMeansEffectiveSize.js';
-import { checkDynamicsSeries } from './checkDynamicsSeries.js';
+import { dynamicsWindow } from './checkDynamicsSeries.js';
 import { InputError } from '../errors.js';
 import { DynamicsFitError } from './DynamicsFitError.js';
 
@@ -236,13 +236,9 @@ function solve3(a: Float64Array, b: Float64Array): Float64Array | null {
  * @param angle_deg unwrapped angle, deg, counterclockwise positive as displayed
  */
 export function fitCoastDown(t_s: Float64Array, angle_deg: Float64Array, options: CoastDownOptions = {}): ModelFit<SpinDownResult> {
-  checkDynamicsSeries(t_s, angle_deg, 'coast-down', 8);
   const level = options.level ?? 0.95;
-  const n = t_s.length;
-  const tRef = t_s[0]!;
-  const t = new Float64Array(n);
-  for (let i = 0; i < n; i++) t[i] = t_s[i]! - tRef;
-  const thin = thinSeries(t, angle_deg, options.thinnedPoints ?? 1500);
+  const { tRef, t, thin } = dynamicsWindow(t_s, angle_deg, 'coast-down', options.thinnedPoints ?? 1500);
+  const n = t.length;
   const starts = coastDownStarts(thin.t, thin.y, 3);
   if (starts.length === 0) throw new InputError('The coast-down fit found no usable start values; check that the angle series is not constant.');
   const out = fitDynamicsCurve(coastDownCurve, t, angle_deg, starts, { ...options, level });

@@ -11,10 +11,10 @@
  */
 import { InputError } from '../errors.js';
 import { DynamicsFitError } from './DynamicsFitError.js';
-import { checkDynamicsSeries } from './checkDynamicsSeries.js';
+import { dynamicsWindow } from './checkDynamicsSeries.js';
 import type { SpinUpResult } from './FitReport.js';
 import type { ModelFit } from './ModelFit.js';
-import { type CurveModel, type DynamicsCurveOptions, fitDynamicsCurve, thinSeries } from './fitDynamicsCurve.js';
+import { type CurveModel, type DynamicsCurveOptions, fitDynamicsCurve } from './fitDynamicsCurve.js';
 import { estimateFromCurve } from './curveEstimate.js';
 import { batchMeansEffectiveSize } from './batchMeansEffectiveSize.js';
 
@@ -120,13 +120,9 @@ function spinUpStarts(t: Float64Array, y: Float64Array, count: number): Float64A
  * @param angle_deg unwrapped angle, deg, counterclockwise positive as displayed
  */
 export function fitSpinUp(t_s: Float64Array, angle_deg: Float64Array, options: SpinUpOptions = {}): ModelFit<SpinUpResult> {
-  checkDynamicsSeries(t_s, angle_deg, 'spin-up', 8);
   const level = options.level ?? 0.95;
-  const n = t_s.length;
-  const tRef = t_s[0]!;
-  const t = new Float64Array(n);
-  for (let i = 0; i < n; i++) t[i] = t_s[i]! - tRef;
-  const thin = thinSeries(t, angle_deg, options.thinnedPoints ?? 1500);
+  const { tRef, t, thin } = dynamicsWindow(t_s, angle_deg, 'spin-up', options.thinnedPoints ?? 1500);
+  const n = t.length;
   const starts = spinUpStarts(thin.t, thin.y, 3);
   if (starts.length === 0) throw new InputError('The spin-up fit found no usable start values; check that the angle series is not constant.');
   const out = fitDynamicsCurve(spinUpCurve, t, angle_deg, starts, options);
