@@ -83,7 +83,8 @@ export function demoDay(options: DemoDayOptions = {}): DemoRun[] {
           clip: `${run}.mp4`,
           spec: base(seed++, { kind: 'steady', angle0_deg: 0, rate_deg_s: rate }),
           // slow reverse runs sweep too short an arc for the centre to be found: give it, as one would
-          cells: { roi, center: direction === 'reverse' ? center : '', model: 'steady' },
+          // the camera was set square to the axis, so the tilt is known to be 0
+          cells: { roi, center: direction === 'reverse' ? center : '', tilt: direction === 'reverse' ? '0' : '', model: 'steady' },
           truth_rate_deg_s: rate,
           spoiled: false,
         });
@@ -133,7 +134,7 @@ export function demoDay(options: DemoDayOptions = {}): DemoRun[] {
       notes: 'filmed on a phone: variable frame timing, two dropped frames',
       clip: `R${quick ? midHead : 12}-phone.mp4`,
       spec: base(seed++, { kind: 'steady', angle0_deg: 0, rate_deg_s: demoReverseRate(quick ? midHead : 12) }, { timing: { jitter_s: 0.006, dropped_frames: [17, 41] } }),
-      cells: { roi, center, model: 'steady' },
+      cells: { roi, center, tilt: '0', model: 'steady' },
       truth_rate_deg_s: demoReverseRate(quick ? midHead : 12),
       spoiled: false,
     },

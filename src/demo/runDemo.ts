@@ -37,8 +37,9 @@ const DEMO_DEFAULTS = { marker: 'bright', setting_unit: 'cm', group: 'Kestrel ro
 
 /** The demo's manifest: one row per run, clip paths relative to the manifest. */
 export function demoManifestCsv(runs: DemoRun[]): string {
-  const columns = ['video', 'run', 'direction', 'setting', 'notes', 'roi', 'center', 'anchor', 'model'];
-  const rows = runs.map((r) => [`clips/${r.clip}`, r.run, r.direction, String(r.setting), r.notes, r.cells.roi ?? '', r.cells.center ?? '', r.cells.anchor ?? '', r.cells.model ?? '']);
+  const settingColumns = ['roi', 'center', 'tilt', 'anchor', 'model'];
+  const columns = ['video', 'run', 'direction', 'setting', 'notes', ...settingColumns];
+  const rows = runs.map((r) => [`clips/${r.clip}`, r.run, r.direction, String(r.setting), r.notes, ...settingColumns.map((c) => r.cells[c] ?? '')]);
   return stringify([columns, ...rows]);
 }
 
