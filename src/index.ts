@@ -96,3 +96,7 @@ export type { TrackOptions, TrackResult } from './track/trackVideo.js';
 export { writeTrackOutputs, formatAngleCsv } from './track/writeTrackOutputs.js';
 export { TrackingError } from './track/TrackingError.js';
 export type { PreviewImage } from './track/drawPreview.js';
+export { runDemo } from './demo/runDemo.js';
+export type { DemoOptions, DemoOutcome } from './demo/runDemo.js';
+export { demoDay } from './demo/demoDay.js';
+export type { DemoRun, DemoDayOptions } from './demo/demoDay.js';
