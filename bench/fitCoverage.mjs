@@ -3,7 +3,7 @@
 // Run: npm run build && node bench/fitCoverage.mjs [replicates=1000] [seconds=60]
 import { fitSteadyRate } from '../dist/fit/steadyRate.js';
 import { linearLeastSquares } from '../dist/fit/linearLeastSquares.js';
-import { simulateSteady, SCENARIOS } from './fitScenarios.mjs';
+import { simulateSteady, normalSource, SCENARIOS } from './fitScenarios.mjs';
 import jstatModule from 'jstat';
 
 const { jStat } = jstatModule;
@@ -14,13 +14,15 @@ const n = Math.round(seconds * fps);
 const rate = 0.8;
 
 console.log(`steady-rate coverage, ${reps} replicates per scenario, ${n} frames (${seconds} s at ${fps} fps), true rate ${rate} deg/s, nominal 95%`);
-console.log('scenario | coverage | naive OLS coverage | mean se / sd of estimate | share with a walk part | ms per fit');
+console.log('scenario | coverage | naive OLS coverage | mean se / sd of estimate | share with a walk part | segment test p < 0.05 | p < 0.01 | ms per fit');
 for (const [si, sc] of SCENARIOS.entries()) {
   let cover = 0;
   let coverNaive = 0;
   let integrated = 0;
   const est = [];
   let seSum = 0;
+  let seg05 = 0;
+  let seg01 = 0;
   const started = performance.now();
   for (let r = 0; r < reps; r++) {
     const { t_s, angle_deg } = simulateSteady({ seed: 1000 * si + r + 1, n, fps, t0_s: 3600, rate_deg_s: rate, ...sc.noise });
@@ -29,6 +31,8 @@ for (const [si, sc] of SCENARIOS.entries()) {
     if (e.ci[0] <= rate && rate <= e.ci[1]) cover++;
     if (fit.noise.walk_deg2_per_s > 0) integrated++;
     est.push(e.value);
+    if (fit.segment_p_value !== null && fit.segment_p_value < 0.05) seg05++;
+    if (fit.segment_p_value !== null && fit.segment_p_value < 0.01) seg01++;
     seSum += e.se;
     const t = Float64Array.from(t_s, (v) => v - t_s[0]);
     const ols = linearLeastSquares([new Float64Array(t.length).fill(1), t], angle_deg);
@@ -39,7 +43,7 @@ for (const [si, sc] of SCENARIOS.entries()) {
   const sd = Math.sqrt(est.reduce((a, b) => a + (b - mean) ** 2, 0) / (reps - 1));
   const ms = (performance.now() - started) / reps;
   console.log(
-    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${ms.toFixed(1)} ms/fit`,
+    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${(100 * seg05 / reps).toFixed(1)}% | ${(100 * seg01 / reps).toFixed(1)}% | ${ms.toFixed(1)} ms/fit`,
   );
 }
 
@@ -60,4 +64,25 @@ for (const [si, sc] of SCENARIOS.entries()) {
   const variance = est.reduce((a, b) => a + (b - mean) ** 2, 0) / (reps - 1);
   const bound = (sigma * sigma) / stt;
   console.log(`white noise: estimator variance / Cramér–Rao bound = ${(variance / bound).toFixed(3)} (${reps} replicates; sampling sd of this ratio ≈ ${Math.sqrt(2 / (reps - 1)).toFixed(3)})`);
+}
+
+// Segment homogeneity test on short footage-like series (8 s at 30 fps, −2.6 deg/s; white 0.03° + AR(1)
+// φ = 0.7, SD 0.02° + a 2.5 Hz flicker error of 0.02° with random phase): false alarms when steady, and
+// the share flagged when the rate steps at t = 4 s.
+{
+  console.log('segment test, footage-like series (240 frames): rate step deg/s | share p < 0.05 | share p < 0.01');
+  for (const step of [0, 0.1, 0.2, 0.3]) {
+    let b05 = 0;
+    let b01 = 0;
+    for (let r = 0; r < reps; r++) {
+      const seed = 700000 + r;
+      const { t_s, angle_deg } = simulateSteady({ seed, n: 240, fps: 30, rate_deg_s: -2.6, white_deg: 0.03, ar_phi: 0.7, ar_sd_deg: 0.02 });
+      const phase = 3 * normalSource(seed + 99)();
+      const a = Float64Array.from(angle_deg, (v, i) => v + 0.02 * Math.sin(2 * Math.PI * 2.5 * t_s[i] + phase) + (t_s[i] > 4 ? step * (t_s[i] - 4) : 0));
+      const p = fitSteadyRate(t_s, a).segment_p_value;
+      if (p < 0.05) b05++;
+      if (p < 0.01) b01++;
+    }
+    console.log(`${step} | ${(100 * b05 / reps).toFixed(1)}% | ${(100 * b01 / reps).toFixed(1)}%`);
+  }
 }

@@ -35,7 +35,7 @@ export interface SteadyResult {
   zero_test: ZeroTest;
   /** Smallest |rate| this run would detect at the given level with 80% power, deg/s. */
   min_detectable_deg_s: number;
-  /** Optional: p-value of a χ² test that all segment rates are equal (small: the rate drifts within the window). */
+  /** Optional: p-value of a test that all segment rates are equal (small: the rate drifts within the window). */
   segment_p_value?: number;
   /** Optional: the angle-noise model behind the interval (white + AR(1) + random walk, fitted to the variogram). */
   noise?: SteadyNoise;

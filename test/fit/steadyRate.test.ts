@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { fitSteadyRate } from '../../src/fit/steadyRate.js';
 import { fitAngleNoiseModel } from '../../src/fit/angleNoiseModel.js';
-import { simulateSteady, SCENARIOS } from '../../bench/fitScenarios.mjs';
+import { simulateSteady, normalSource, SCENARIOS } from '../../bench/fitScenarios.mjs';
 
 // Seeded Monte Carlo, the fast version of bench/fitCoverage.mjs (1000 replicates per scenario there).
 // 300 replicates: the count of covering intervals is Binomial(300, p); if the true coverage is 95%, it lies
@@ -44,6 +44,60 @@ describe('fitSteadyRate interval coverage (seeded Monte Carlo)', () => {
     const m = est.reduce((a, b) => a + b, 0) / REPS;
     const variance = est.reduce((a, b) => a + (b - m) ** 2, 0) / (REPS - 1);
     expect(variance / ((sigma * sigma) / stt)).toBeLessThanOrEqual(1.15 * (1 + 3.09 * Math.sqrt(2 / (REPS - 1))));
+  });
+});
+
+// The segment homogeneity test must hold its nominal false-alarm rate on steady series whose tracking error
+// is correlated the way footage makes it (white + AR(1) + lighting flicker), and still flag a rate step.
+// Counts over R seeded replicates are Binomial(R, α) under a correct test; the bands are the 99.9% normal
+// approximation α ± 3.29·√(α(1 − α)/R) (common practice, no source). Invented rig: 8 s at 30 fps, −2.6 deg/s.
+describe('fitSteadyRate segment homogeneity test (seeded Monte Carlo)', () => {
+  const R = 300;
+  const band = (alpha: number, reps: number): number => 3.29 * Math.sqrt((alpha * (1 - alpha)) / reps);
+  /** Steady −2.6 deg/s plus white + AR(1) noise and a 2.5 Hz flicker error of random phase; the rate steps by `step_deg_s` at t = 4 s. */
+  const footageLike = (seed: number, step_deg_s: number): number | null => {
+    const { t_s, angle_deg } = simulateSteady({ seed, n: 240, fps: 30, rate_deg_s: -2.6, white_deg: 0.03, ar_phi: 0.7, ar_sd_deg: 0.02 });
+    const phase = 3 * normalSource(seed + 99)();
+    const a = Float64Array.from(angle_deg, (v, i) => {
+      const tt = t_s[i]!;
+      return v + 0.02 * Math.sin(2 * Math.PI * 2.5 * tt + phase) + (tt > 4 ? step_deg_s * (tt - 4) : 0);
+    });
+    return fitSteadyRate(t_s, a).segment_p_value;
+  };
+
+  it('has p-values roughly uniform on steady footage-like series (false alarms at the nominal rate)', () => {
+    let below05 = 0;
+    let below01 = 0;
+    let belowHalf = 0;
+    for (let r = 0; r < R; r++) {
+      const p = footageLike(61000 + r, 0)!;
+      if (p < 0.05) below05++;
+      if (p < 0.01) below01++;
+      if (p < 0.5) belowHalf++;
+    }
+    expect(below05 / R).toBeGreaterThanOrEqual(0.05 - band(0.05, R));
+    expect(below05 / R).toBeLessThanOrEqual(0.05 + band(0.05, R));
+    expect(below01 / R).toBeLessThanOrEqual(0.01 + band(0.01, R));
+    expect(belowHalf / R).toBeGreaterThanOrEqual(0.5 - band(0.5, R));
+    expect(belowHalf / R).toBeLessThanOrEqual(0.5 + band(0.5, R));
+  });
+
+  it('keeps the nominal false-alarm rate under AR(1) noise plus a wandering rate (10 segments)', () => {
+    const sc = SCENARIOS.find((s) => s.name === 'AR(1) + random walk')!;
+    const reps = 150;
+    let below05 = 0;
+    for (let r = 0; r < reps; r++) {
+      const { t_s, angle_deg } = simulateSteady({ seed: 62000 + r, n: N, fps: 60, rate_deg_s: RATE, ...sc.noise });
+      if (fitSteadyRate(t_s, angle_deg).segment_p_value! < 0.05) below05++;
+    }
+    expect(below05 / reps).toBeLessThanOrEqual(0.05 + band(0.05, reps));
+  });
+
+  it('flags a rate step of 0.3 deg/s (about 15 segment standard errors) at p < 0.01 in at least 90% of replicates', () => {
+    const reps = 100;
+    let flagged = 0;
+    for (let r = 0; r < reps; r++) if (footageLike(63000 + r, 0.3)! < 0.01) flagged++;
+    expect(flagged / reps).toBeGreaterThanOrEqual(0.9);
   });
 });
 
