@@ -67,10 +67,13 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
   const from_s = options.from_s ?? -Infinity;
   const to_s = options.to_s ?? Infinity;
   if (Number.isNaN(from_s) || Number.isNaN(to_s) || to_s <= from_s) throw new InputError(`The time window ${options.from_s ?? 'start'}–${options.to_s ?? 'end'} s is empty; give from < to.`);
+  // Locating ffmpeg (cached after the first call) overlaps the header read; header errors still come first.
+  const located = locateFfmpeg({ ffmpeg: options.ffmpeg });
+  located.catch(() => undefined); // awaited below; this only keeps an early header error from leaving it unhandled
   const header = options.header ?? await probeVideoHeader(path, { ffprobe: options.ffprobe });
   const roi = options.roi ?? { x: 0, y: 0, w: header.width, h: header.height };
   if (options.roi) checkRoi(roi, header.width, header.height, path);
-  const ffmpeg = await locateFfmpeg({ ffmpeg: options.ffmpeg });
+  const ffmpeg = await located;
   const channels = pixels === 'gray' ? 1 : 3;
   const frameBytes = roi.w * roi.h * channels;
 
@@ -129,7 +132,8 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
         filled += n;
         at += n;
         if (filled < frameBytes) continue;
-        const t_s = await nextTime();
+        // The showinfo line usually arrives before the frame's last bytes: take it without an await.
+        const t_s = times.length > 0 ? times.shift() : await nextTime();
         if (t_s === undefined && options.signal?.aborted) options.signal.throwIfAborted();
         if (t_s === undefined || Number.isNaN(t_s)) {
           throw new FfmpegError(`ffmpeg gave no presentation time for frame ${decoded} of ${path}; the file's timestamps may be damaged.`, { file: path, exitCode: null, stderrTail: '' });
