@@ -1,4 +1,5 @@
-import { mkdir, open, rename, rm } from 'node:fs/promises';
+import { open, rename, rm } from 'node:fs/promises';
+import { makeFolders } from './makeFolders.js';
 import { dirname, basename, join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 
@@ -7,7 +8,7 @@ import { randomBytes } from 'node:crypto';
  * in the same folder, is flushed to disk, then renamed over the target (rename is atomic on POSIX).
  */
 export async function writeFileAtomic(path: string, content: string | Uint8Array): Promise<void> {
-  await mkdir(dirname(path), { recursive: true });
+  await makeFolders(dirname(path));
   const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
   const handle = await open(tmp, 'w');
   try {

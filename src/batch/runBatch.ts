@@ -2,6 +2,7 @@ import { existsSync } from 'node:fs';
 import { readdir } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError, RevtraceError } from '../errors.js';
 import { VERSION } from '../version.js';
 import { hashFile } from '../video/hashFile.js';
@@ -93,6 +94,7 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
       throw new InputError(`the video of run ${r.run} (${r.video}) lies inside the output folder's runs/; keep inputs outside ${outDir}`);
     }
   }
+  await ensureWritableFolder(outDir, options.out !== undefined ? '--out' : 'the output folder');
   const mine: ManifestRun[] = shard ? manifest.runs.filter((r) => shardOf(r.run, shard.count) === shard.index) : manifest.runs;
 
   let processor = options.processor;

@@ -1,4 +1,5 @@
-import { mkdir, readFile, rm, stat } from 'node:fs/promises';
+import { readFile, rm, stat } from 'node:fs/promises';
+import { makeFolders } from '../makeFolders.js';
 import { join } from 'node:path';
 import { writeFileAtomic } from '../writeFileAtomic.js';
 import { cleanStaleTemps } from './cleanStaleTemps.js';
@@ -33,7 +34,7 @@ export async function outputsPresent(runDir: string, record: RunRecord): Promise
  * leaves the run uncommitted), then the known outputs and any temporary files. Nothing else is touched.
  */
 export async function resetRunFolder(runDir: string): Promise<void> {
-  await mkdir(runDir, { recursive: true });
+  await makeFolders(runDir);
   await rm(join(runDir, 'run.json'), { force: true });
   for (const name of RUN_OUTPUT_FILES) await rm(join(runDir, name), { force: true });
   await cleanStaleTemps([runDir]);

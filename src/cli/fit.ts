@@ -3,6 +3,8 @@ import { readAngleTable } from '../fit/readAngleTable.js';
 import { fitAngleSeries, type FitModelOption } from '../fit/fitAngleSeries.js';
 import { writeFitOutputs } from '../fit/writeFitOutputs.js';
 import type { Estimate, FitReport } from '../fit/FitReport.js';
+import { dirname } from 'node:path';
+import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 
 interface FitCliOptions {
@@ -70,6 +72,7 @@ export function registerFit(program: Command): void {
       const seed = numberOption('--seed', o.seed)!;
       const from = numberOption('--from', o.from);
       const to = numberOption('--to', o.to);
+      await ensureWritableFolder(dirname(o.out), 'the folder of --out');
       const table = await readAngleTable(anglePath);
       const result = fitAngleSeries(
         { t_s: table.t_s, angle_deg: table.angle_deg, lost_share: table.lost_share },

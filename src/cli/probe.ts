@@ -59,6 +59,12 @@ export function probeText(file: string, p: VideoProbe): string {
   return `${lines.join('\n')}\n`;
 }
 
+/** Every frame's presentation time as a `frame,t_s` table after a blank line (text output with --frame-times). */
+export function frameTimesText(p: VideoProbe): string {
+  const times = p.frame_times_s ? Array.from(p.frame_times_s, (t, i) => `${i},${us(t).toFixed(6)}`) : [];
+  return `\nframe,t_s\n${times.join('\n')}${times.length > 0 ? '\n' : ''}`;
+}
+
 /** `revtrace probe <video>`: what the file holds and how regular its frame timing is. */
 export function registerProbe(program: Command): void {
   program
@@ -66,11 +72,11 @@ export function registerProbe(program: Command): void {
     .description('describe a video: container, codec, displayed size, frame count, duration and frame timing (variable rate, dropped and duplicated frames)')
     .argument('<video>', 'video file')
     .option('--json', 'print one JSON object instead of text')
-    .option('--frame-times', 'with --json, include every frame\'s presentation time (frame_times_s)')
+    .option('--frame-times', 'also list every frame\'s presentation time (with --json: frame_times_s; as text: a frame,t_s table)')
     .action(async (video: string, o: { json?: boolean; frameTimes?: boolean }, command: Command) => {
       const g = globalOptions(command);
       const probe = await probeVideo(video, { ffprobe: g.ffprobe });
       if (o.json) process.stdout.write(`${JSON.stringify(probeJson(video, probe, Boolean(o.frameTimes)))}\n`);
-      else process.stdout.write(probeText(video, probe));
+      else process.stdout.write(probeText(video, probe) + (o.frameTimes ? frameTimesText(probe) : ''));
     });
 }

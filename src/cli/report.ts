@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { stat } from 'node:fs/promises';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
+import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 import { rebuildSummary } from '../batch/rebuildSummary.js';
 import { writeReport } from '../report/writeReport.js';
@@ -34,6 +35,7 @@ export function registerReport(program: Command): void {
         if (!Number.isFinite(margin) || margin <= 0) throw new InputError(`--margin "${o.margin}" is not a positive rate; give the margin in deg/s, e.g. --margin 0.5`);
       }
       if (o.out !== undefined && !/\.html?$/i.test(o.out)) throw new InputError(`--out "${o.out}" does not end in .html; give an HTML file name such as report.html`);
+      await ensureWritableFolder(o.out !== undefined ? dirname(o.out) : dir, o.out !== undefined ? 'the folder of --out' : 'the batch folder');
       const { records } = await rebuildSummary(dir);
       const path = await writeReport(dir, { out: o.out, title: o.title, margin_deg_s: margin });
       process.stdout.write(`report: ${path} (${records.length} run${records.length === 1 ? '' : 's'})\n`);

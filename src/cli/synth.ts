@@ -1,5 +1,7 @@
 import type { Command } from 'commander';
 import { readFile } from 'node:fs/promises';
+import { dirname } from 'node:path';
+import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 import { anchorRegion } from '../synth/anchorRegion.js';
 import { renderClip } from '../synth/renderClip.js';
@@ -238,6 +240,8 @@ export function registerSynth(program: Command): void {
       const g = globalOptions(command);
       const base = o.spec !== undefined ? await readSpecFile(o.spec) : {};
       const spec = resolveSynthSpec(mergeSpec(base, optionsToSpec(o)));
+      if (!/\.(mp4|m4v|mov)$/i.test(o.out!)) throw new InputError(`--out "${o.out}" does not end in .mp4; revtrace renders H.264 MP4 video, so give a name such as clip.mp4`);
+      await ensureWritableFolder(dirname(o.out!), 'the folder of --out');
       const clip = await renderClip(spec, o.out!, { ffmpeg: g.ffmpeg });
       if (o.quiet) return;
       const anchor = anchorRegion(spec);

@@ -1,4 +1,5 @@
 import type { Command } from 'commander';
+import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 import { trackVideo } from '../track/trackVideo.js';
 import { toRegion } from '../track/TrackOptions.js';
@@ -49,6 +50,7 @@ export function registerTrack(program: Command): void {
         if (p.length !== 2 || !p.every(Number.isFinite)) throw new InputError(`--center "${o.center}" must be two numbers x,y in pixels`);
         centre = { x_px: p[0], y_px: p[1] };
       }
+      await ensureWritableFolder(o.out, '--out');
       const controller = new AbortController();
       const onSignal = () => controller.abort(new Error('interrupted'));
       process.on('SIGINT', onSignal);

@@ -2,6 +2,7 @@ import { join, resolve } from 'node:path';
 import { stringify } from 'csv-stringify/sync';
 import { runBatch, type BatchOptions, type BatchOutcome } from '../batch/runBatch.js';
 import { writeReport } from '../report/writeReport.js';
+import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { writeFileAtomic } from '../writeFileAtomic.js';
 import { demoDay, type DemoRun } from './demoDay.js';
 import { prepareDemoClips } from './prepareDemoClips.js';
@@ -54,6 +55,7 @@ function demoTruthCsv(runs: DemoRun[]): string {
  */
 export async function runDemo(options: DemoOptions = {}): Promise<DemoOutcome> {
   const outDir = resolve(options.out ?? join('reports', 'demo'));
+  await ensureWritableFolder(outDir, '--out');
   const runs = demoDay({ quick: options.quick });
   const clipsDir = join(outDir, 'clips');
   const { rendered, reused } = await prepareDemoClips(runs, clipsDir, { ffmpeg: options.tools?.ffmpeg, onLog: options.onLog });

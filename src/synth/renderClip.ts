@@ -1,4 +1,4 @@
-import { mkdir } from 'node:fs/promises';
+import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { dirname, basename, extname, join } from 'node:path';
 import { SOFTWARE } from '../version.js';
 import type { VideoFrameIn } from '../video/writeVideo.js';
@@ -67,7 +67,7 @@ export async function renderClip(specInput: SynthSpec | SynthSpecInput, videoPat
       yield { t_s: t_s[f], data: frame.data };
     }
   }
-  await mkdir(dirname(videoPath), { recursive: true });
+  await ensureWritableFolder(dirname(videoPath), "the video's folder");
   await writeVideo(videoPath, frames(), {
     width: spec.width_px,
     height: spec.height_px,

@@ -48,7 +48,7 @@ export async function writeVideo(path: string, frames: Iterable<VideoFrameIn> | 
     throw new InputError(`crf ${quality.crf} is outside 0–51; choose for example 18.`);
   }
   const ext = extname(path).toLowerCase();
-  if (!['.mp4', '.m4v', '.mov'].includes(ext)) throw new InputError(`writeVideo writes MP4; give a file name ending in .mp4 instead of ${basename(path)}.`);
+  if (!['.mp4', '.m4v', '.mov'].includes(ext)) throw new InputError(`the video ${basename(path)} would not be an MP4 file; give a name ending in .mp4`);
   const ffmpeg = await locateFfmpeg({ ffmpeg: options.ffmpeg });
 
   const frameBytes = width * height * channels;

@@ -51,6 +51,15 @@ describe('revtrace probe', () => {
     expect(p.duplicated.count).toBe(0);
   });
 
+  it('lists the frame times as a frame,t_s table after the text report with --frame-times', () => {
+    // Reference: testsrc2 at 25 fps gives frame n at n/25 s (ffmpeg-filters documentation, lavfi sources).
+    const r = revtrace('probe', cfr, '--frame-times');
+    expect(r.status).toBe(0);
+    const table = r.stdout.split('\n\n')[1]!.trim().split('\n');
+    expect(table[0]).toBe('frame,t_s');
+    expect(table.slice(1)).toEqual(Array.from({ length: 50 }, (_, n) => `${n},${(n / 25).toFixed(6)}`));
+  });
+
   it('reports the displayed size of a rotation-tagged clip', () => {
     // Reference: a stream copy with -metadata:s:v rotate=90 (a quarter turn for display).
     const rotated = join(dir, 'rotated.mp4');

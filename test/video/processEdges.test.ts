@@ -40,17 +40,15 @@ describe('ffmpeg process edges (stand-in executables)', () => {
   it('stops a hanging ffmpeg on abort and leaves no process behind', async () => {
     const pidFile = join(dir, 'hang.pid');
     const hanging = standIn(dir, 'ffmpeg-hangs', `echo $$ > ${pidFile}\nexec sleep 600`);
-    const started = Date.now();
     let error: unknown;
     try {
       for await (const _ of readFrames(clip, { ffmpeg: hanging, signal: AbortSignal.timeout(1500) })) { /* none */ }
     } catch (err) { error = err; }
     expect(error).toBeInstanceOf(Error);
     expect((error as Error).name).toBe('TimeoutError');
-    expect(Date.now() - started).toBeLessThan(20_000);
     expect(existsSync(pidFile)).toBe(true);
     expect(alive(Number(readFileSync(pidFile, 'utf8')))).toBe(false);
-  });
+  }, 30_000); // the stand-in sleeps 600 s: a reader that ignored the abort would fail this test by its timeout
 
   it('reports a stand-in that dies in the middle of a frame', async () => {
     const partial = standIn(dir, 'ffmpeg-partial', 'echo "[Parsed_showinfo_3 @ 0x1] n:   0 pts:      0 pts_time:0" >&2\nhead -c 100 /dev/zero\nexit 0');

@@ -1,0 +1,48 @@
+import { open, rm } from 'node:fs/promises';
+import { makeFolders } from './makeFolders.js';
+import { join } from 'node:path';
+import { randomBytes } from 'node:crypto';
+import { InputError } from './errors.js';
+
+/** How a file-system error code reads to a person. */
+function reason(code: string | undefined): string {
+  switch (code) {
+    case 'EACCES':
+    case 'EPERM':
+      return 'permission denied';
+    case 'EROFS':
+      return 'the file system is read-only';
+    case 'ENOTDIR':
+    case 'EEXIST':
+      return 'part of the path is a file, not a folder';
+    case 'ENOSPC':
+      return 'the disk is full';
+    case 'ENOENT':
+      return 'nothing can be created there';
+    default:
+      return code ?? 'not writable';
+  }
+}
+
+/**
+ * Creates `dir` if needed and proves it writable by creating and removing an empty probe file, so a
+ * command fails in its first second with one sentence naming `option` rather than after the work.
+ */
+export async function ensureWritableFolder(dir: string, option: string): Promise<void> {
+  const fail = (err: unknown): never => {
+    throw new InputError(`cannot write to ${option} ${dir} (${reason((err as NodeJS.ErrnoException).code)}); choose a folder you can write to`, { cause: err });
+  };
+  try {
+    await makeFolders(dir);
+  } catch (err) {
+    fail(err);
+  }
+  const probe = join(dir, `.revtrace-write-probe.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
+  try {
+    const handle = await open(probe, 'wx');
+    await handle.close();
+  } catch (err) {
+    fail(err);
+  }
+  await rm(probe, { force: true });
+}

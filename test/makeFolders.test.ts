@@ -1,0 +1,28 @@
+// makeFolders: parents made one level at a time, with the ordinary file-system error where a level cannot be made.
+import { describe, expect, it } from 'vitest';
+import { mkdtemp, stat, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { makeFolders } from '../src/makeFolders.js';
+
+describe('makeFolders', () => {
+  it('makes every missing level and accepts folders that already exist', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-folders-'));
+    const deep = join(dir, 'a', 'b', 'c');
+    await makeFolders(deep);
+    expect((await stat(deep)).isDirectory()).toBe(true);
+    await makeFolders(deep);
+    await makeFolders(dir);
+  });
+
+  it('fails with ENOTDIR when a level is a plain file', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-folders-'));
+    await writeFile(join(dir, 'f'), 'x');
+    await expect(makeFolders(join(dir, 'f', 'sub'))).rejects.toMatchObject({ code: 'ENOTDIR' });
+  });
+
+  it('fails (rather than spinning, as recursive mkdir does in Node 20) under /proc', async () => {
+    // Linux procfs refuses new entries (proc(5), Linux man-pages).
+    await expect(makeFolders('/proc/revtrace-none/sub')).rejects.toMatchObject({ code: 'ENOENT' });
+  });
+});
