@@ -1,4 +1,4 @@
-import { open, rm } from 'node:fs/promises';
+import { open, rm, rmdir } from 'node:fs/promises';
 import { makeFolders } from './makeFolders.js';
 import { join } from 'node:path';
 import { randomBytes } from 'node:crypto';
@@ -25,24 +25,24 @@ function reason(code: string | undefined): string {
 }
 
 /**
- * Creates `dir` if needed and proves it writable by creating and removing an empty probe file, so a
- * command fails in its first second with one sentence naming `option` rather than after the work.
+ * Proves `dir` writable by creating (and removing again) any missing levels and an empty probe file,
+ * so a command fails in its first second with one sentence naming `option` rather than after the
+ * work, and a command that fails later leaves no empty folder behind.
  */
 export async function ensureWritableFolder(dir: string, option: string): Promise<void> {
   const fail = (err: unknown): never => {
     throw new InputError(`cannot write to ${option} ${dir} (${reason((err as NodeJS.ErrnoException).code)}); choose a folder you can write to`, { cause: err });
   };
+  let made: string[] = [];
   try {
-    await makeFolders(dir);
-  } catch (err) {
-    fail(err);
-  }
-  const probe = join(dir, `.revtrace-write-probe.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
-  try {
+    made = await makeFolders(dir);
+    const probe = join(dir, `.revtrace-write-probe.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
     const handle = await open(probe, 'wx');
     await handle.close();
+    await rm(probe, { force: true });
   } catch (err) {
     fail(err);
+  } finally {
+    for (const level of made.reverse()) await rmdir(level).catch(() => {}); // a parallel run may have filled it meanwhile
   }
-  await rm(probe, { force: true });
 }

@@ -9,9 +9,9 @@ describe('makeFolders', () => {
   it('makes every missing level and accepts folders that already exist', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'revtrace-folders-'));
     const deep = join(dir, 'a', 'b', 'c');
-    await makeFolders(deep);
+    expect(await makeFolders(deep)).toEqual([join(dir, 'a'), join(dir, 'a', 'b'), deep]);
     expect((await stat(deep)).isDirectory()).toBe(true);
-    await makeFolders(deep);
+    expect(await makeFolders(deep)).toEqual([]);
     await makeFolders(dir);
   });
 

@@ -78,6 +78,10 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   let signalBuf: Uint8Array | null = null;
   let grayBuf: Uint8Array | null = null;
   const duration_s = Math.max(0, Math.min(options.to_s ?? Infinity, header.duration_s) - (options.from_s ?? 0));
+  const end_s = header.start_s + header.duration_s;
+  if (options.from_s !== undefined && Number.isFinite(end_s) && options.from_s >= end_s) {
+    throw new InputError(`--from ${options.from_s} s is at or after the end of ${path} (${end_s.toFixed(2)} s); give a start time within the video`);
+  }
   let colourSeen = 0;
   let shiftMax = 0;
   let rotMax = 0;

@@ -66,7 +66,7 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
   if (pixels !== 'gray' && pixels !== 'rgb') throw new InputError(`pixels must be 'gray' or 'rgb', not '${String(pixels)}'.`);
   const from_s = options.from_s ?? -Infinity;
   const to_s = options.to_s ?? Infinity;
-  if (Number.isNaN(from_s) || Number.isNaN(to_s) || to_s <= from_s) throw new InputError(`The time window ${options.from_s ?? 'start'}–${options.to_s ?? 'end'} s is empty; give from < to.`);
+  if (Number.isNaN(from_s) || Number.isNaN(to_s) || to_s <= from_s) throw new InputError(`the time window from ${options.from_s ?? 'the start'} to ${options.to_s ?? 'the end'} s is empty; give a start (--from) before the end (--to)`);
   // Locating ffmpeg (cached after the first call) overlaps the header read; header errors still come first.
   const located = locateFfmpeg({ ffmpeg: options.ffmpeg });
   located.catch(() => undefined); // awaited below; this only keeps an early header error from leaving it unhandled

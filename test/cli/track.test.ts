@@ -1,0 +1,49 @@
+// The track command line: one sentence and exit 2 for each kind of bad option, and nothing written (run `npm run build` first).
+import { beforeAll, describe, expect, it } from 'vitest';
+import { spawnSync } from 'node:child_process';
+import { mkdtemp, readdir } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const bin = fileURLToPath(new URL('../../bin/revtrace', import.meta.url));
+const revtrace = (args: string[], cwd: string) => spawnSync(process.execPath, [bin, ...args], { encoding: 'utf8', cwd });
+
+describe('revtrace track with bad options', () => {
+  let dir = '';
+  beforeAll(async () => {
+    dir = await mkdtemp(join(tmpdir(), 'revtrace-cli-track-'));
+    const r = revtrace(['synth', '--out', 'c.mp4', '--duration', '0.5', '--size', '320x240', '--marker', '60', '--quiet'], dir);
+    expect(r.status).toBe(0);
+  });
+
+  const cases: [string, string[], RegExp][] = [
+    ['a region outside the frame', ['--roi', '300,200,100,100'], /^revtrace: --roi 300,200,100,100 lies outside the 320×240 frame; /],
+    ['a region that is not four numbers', ['--roi', '1,2,3'], /^revtrace: --roi 1,2,3 must be four numbers x,y,w,h in pixels/],
+    ['an unknown marker kind', ['--marker', 'purple'], /^revtrace: --marker purple is not a marker kind; give bright, dark, color:#rrggbb or texture/],
+    ['a colour that is not hex', ['--marker', 'color:zz'], /^revtrace: --marker color:zz is not a marker kind/],
+    ['a start after the end of the clip', ['--from', '5'], /^revtrace: --from 5 s is at or after the end of c\.mp4 \(0\.50 s\); /],
+    ['a start after the end time', ['--from', '0.4', '--to', '0.1'], /^revtrace: the time window from 0\.4 to 0\.1 s is empty; /],
+    ['a tilt beyond the usable range', ['--tilt', '95'], /^revtrace: --tilt 95 must be an angle from 0 to 85 degrees/],
+    ['a tilt that is not a number', ['--tilt', 'abc'], /^revtrace: --tilt "abc" is not a number; give it in degrees/],
+    ['a centre that is one number', ['--center', '1'], /^revtrace: --center "1" must be two numbers x,y in pixels/],
+  ];
+  for (const [what, args, message] of cases) {
+    it(`refuses ${what}`, async () => {
+      const r = revtrace(['track', 'c.mp4', '--out', 'out', ...args], dir);
+      expect(r.status).toBe(2);
+      expect(r.stderr).toMatch(message);
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+      expect((await readdir(dir)).sort()).toEqual(['c.mp4', 'c.synth.json', 'c.truth.csv']);
+    });
+  }
+
+  it('refuses a file that is not a video, and a missing file', async () => {
+    for (const [file, message] of [['c.truth.csv', /^revtrace: c\.truth\.csv is not a video ffprobe can read /], ['gone.mp4', /^revtrace: No file at gone\.mp4; check the path\./]] as const) {
+      const r = revtrace(['track', file, '--out', 'out'], dir);
+      expect(r.status).toBe(2);
+      expect(r.stderr).toMatch(message);
+    }
+    expect((await readdir(dir)).sort()).toEqual(['c.mp4', 'c.synth.json', 'c.truth.csv']);
+  });
+});
