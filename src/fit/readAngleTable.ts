@@ -29,7 +29,7 @@ export async function readAngleTable(path: string): Promise<AngleTableRows> {
     text = await readFile(path, 'utf8');
   } catch (err) {
     const code = (err as NodeJS.ErrnoException).code;
-    throw new InputError(code === 'ENOENT' ? `angle table ${path} does not exist; give the path of an angle.csv` : `cannot read angle table ${path} (${code ?? String(err)})`, { cause: err });
+    throw new InputError(code === 'ENOENT' ? `angle table ${path} does not exist; give the path of an angle.csv` : code === 'EISDIR' ? `angle table ${path} is a folder; give the path of the angle.csv inside it` : `cannot read angle table ${path} (${code ?? String(err)}); check the path and its permissions`, { cause: err });
   }
   let records: string[][];
   if (!text.includes('"')) {
