@@ -49,6 +49,11 @@ export function checkRoi(roi: RoiPx, width: number, height: number, file: string
   }
 }
 
+/** Frames ffmpeg may queue ahead of the reader: about 32 MB of them, between 2 and 16. */
+function fifoQueueFrames(frameBytes: number): number {
+  return Math.max(2, Math.min(16, Math.floor((32 * 1024 * 1024) / frameBytes)));
+}
+
 /**
  * Decodes a video to frames, one per decoded frame, each with its own presentation time.
  * One ffmpeg process decodes, rotates for display, crops to the ROI and converts to gray or RGB;
@@ -93,7 +98,10 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
     '-i', path,
     '-filter_complex', graph, '-map', '[frames]', '-an', '-sn', '-dn',
     ...ffmpeg.passthroughArgs,
-    '-f', 'rawvideo', '-pix_fmt', pixels === 'gray' ? 'gray' : 'rgb24', 'pipe:1',
+    // The fifo pseudo-muxer writes the pipe from its own thread with a queue of a few frames, so
+    // decoding goes on while Node is busy instead of stalling on every full pipe (see bench/reader.mjs).
+    '-c:v', 'rawvideo', '-pix_fmt', pixels === 'gray' ? 'gray' : 'rgb24',
+    '-f', 'fifo', '-fifo_format', 'rawvideo', '-queue_size', String(fifoQueueFrames(frameBytes)), 'pipe:1',
   ];
 
   const times: number[] = []; // showinfo times not yet paired with a frame (a handful at most)
