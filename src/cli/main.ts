@@ -11,7 +11,8 @@ export function buildProgram(): Command {
     .option('--debug', 'print stack traces for errors')
     .option('--ffmpeg <path>', 'ffmpeg executable to use (else REVTRACE_FFMPEG, bundled, PATH)')
     .option('--ffprobe <path>', 'ffprobe executable to use (else REVTRACE_FFPROBE, bundled, PATH)')
-    .showHelpAfterError('(run revtrace --help for usage)')
+    // commander's own parse errors become one line in revtrace's form, with where to find the usage
+    .configureOutput({ outputError: (text, write) => write(`${text.trim().replace(/^error: /, 'revtrace: ')} (run revtrace --help for usage)\n`) })
     .exitOverride();
   for (const register of commands) register(program);
   return program;

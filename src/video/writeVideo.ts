@@ -2,6 +2,7 @@ import { rename, rm } from 'node:fs/promises';
 import { basename, dirname, extname, join } from 'node:path';
 import { randomBytes } from 'node:crypto';
 import { InputError } from '../errors.js';
+import { makeFolders } from '../makeFolders.js';
 import { locateFfmpeg } from './locateTools.js';
 import { runToolToEnd } from './runTool.js';
 import { rewriteMp4Timing } from './rewriteMp4Timing.js';
@@ -88,6 +89,7 @@ export async function writeVideo(path: string, frames: Iterable<VideoFrameIn> | 
     : ['-c:v', 'libx264', '-crf', String(quality.crf), '-preset', options.preset ?? 'veryfast',
       // gray goes to full-range luma (yuvj…) so 0 and 255 come back as 0 and 255, not 16 and 235
       '-pix_fmt', `${gray ? 'yuvj' : 'yuv'}${width % 2 === 0 && height % 2 === 0 ? '420p' : '444p'}`];
+  await makeFolders(dirname(path));
   const tmp = join(dirname(path), `.${basename(path)}.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
   const args = [
     '-hide_banner', '-nostats', '-loglevel', 'error',

@@ -35,8 +35,9 @@ beforeAll(async () => {
       profile: { kind: 'steady', angle0_deg: seed * 17, rate_deg_s: rate },
       realism: { noise_sigma: 3, crf: 18 }, // sensor noise and H.264 compression, as in ordinary lab footage
     }, join(dir, 'clips', `${run}.mp4`));
-    // the renderer's truth: the rate column of its truth table (constant for a steady profile)
-    truth.set(run, clip.truth.rate_deg_s[0]!);
+    // Truth: the rate the clip was rendered with (our renderer, known by construction); its truth table agrees
+    expect(clip.truth.rate_deg_s.every((v) => v === rate)).toBe(true);
+    truth.set(run, rate);
     lines.push(`clips/${run}.mp4,${run},${direction},${setting},L/min`);
   }
   await writeFile(join(dir, 'day.csv'), `${lines.join('\n')}\n`);

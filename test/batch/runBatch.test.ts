@@ -49,6 +49,8 @@ describe('runBatch with a stand-in processor', () => {
     expect(outcome.failed).toEqual([]);
     expect(outcome.summary_written).toBe(true);
     const rows = await readSummary(out);
+    // by hand from the stand-in's rule (fakeProcessor.mjs: rate ± 1 deg/s, rpm = rate/6 since 1 rpm = 6 deg/s),
+    // printed to 10 significant digits
     expect(rows.map((r) => [r.run, r.direction, r.setting, r.status, r.rate_deg_s, r.rate_lo_deg_s, r.rate_rpm])).toEqual([
       ['f1a', 'forward', '1', 'ok', '120', '119', '20'],
       ['f1b', 'forward', '1', 'ok', '121', '120', '20.16666667'],

@@ -3,7 +3,8 @@ import { spawnSync } from 'node:child_process';
 import { copyFileSync, readFileSync, writeFileSync, mkdirSync, statSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { join } from 'node:path';
-import { ffmpeg, tempDir, testsrc2Clip } from '../video/referenceTools.js';
+import { execFileSync } from 'node:child_process';
+import { FFPROBE, ffmpeg, tempDir, testsrc2Clip } from '../video/referenceTools.js';
 
 const bin = fileURLToPath(new URL('../../bin/revtrace', import.meta.url));
 
@@ -44,6 +45,8 @@ describe('revtrace probe', () => {
     expect(p.frame_count).toBe(42);
     expect(p.frame_times_s).toEqual(expected);
     expect(p.variable_frame_rate).toBe(true);
+    // from the same closed form by hand: shortest step 40 − 9 = 31 ms (frame n ≡ 1 mod 3 to the next);
+    // longest 80 + 9 = 89 ms (a removed frame n = 3, 24 or 45, whose next kept frame n + 1 ≡ 1 mod 3)
     expect(p.interval_s).toMatchObject({ min: 0.031, median: 0.04, max: 0.089 });
     // each removed frame n leaves a gap after frame n − 1
     const before = [2, 9, 16, 23, 30, 37, 44].map((n) => (n * 40 + (n % 3 === 1 ? 9 : 0)) / 1000);
@@ -61,12 +64,15 @@ describe('revtrace probe', () => {
   });
 
   it('reports the displayed size of a rotation-tagged clip', () => {
-    // Reference: a stream copy with -metadata:s:v rotate=90 (a quarter turn for display).
+    // Reference: a stream copy with -metadata:s:v rotate=90 (a quarter turn for display), and the display
+    // matrix rotation ffprobe itself prints for the file, folded into 0..359.
     const rotated = join(dir, 'rotated.mp4');
     ffmpeg(['-i', cfr, '-c', 'copy', '-metadata:s:v', 'rotate=90', rotated]);
     const p = probeJson(rotated);
     expect(p).toMatchObject({ width: 240, height: 320, coded_width: 320, coded_height: 240 });
-    expect([90, 270]).toContain(p.rotation_deg);
+    const shown = execFileSync(FFPROBE, ['-v', 'error', '-select_streams', 'v:0', '-show_streams', rotated]).toString();
+    const ffprobeRotation = Number(/^rotation=(-?\d+)$/m.exec(shown)![1]);
+    expect(p.rotation_deg).toBe(((ffprobeRotation % 360) + 360) % 360);
   });
 
   it('prints a readable report without --json', () => {

@@ -19,6 +19,14 @@ describe('revtrace synth', () => {
     expect((await readdir(dir)).sort()).toEqual(['c.mp4', 'c.synth.json', 'c.truth.csv']);
   });
 
+  it('makes the folder of --out when it does not exist yet', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-cli-synth-sub-'));
+    const r = revtrace(['synth', '--out', 'new/deeper/c.mp4', '--duration', '0.12', '--fps', '25', '--size', '160x120', '--marker', '40', '--quiet'], dir);
+    expect(r.stderr).toBe('');
+    expect(r.status).toBe(0);
+    expect((await readdir(join(dir, 'new', 'deeper'))).sort()).toEqual(['c.mp4', 'c.synth.json', 'c.truth.csv']);
+  });
+
   it('refuses bad options with one sentence naming the option, exit 2, and writes nothing', async () => {
     const dir = await mkdtemp(join(tmpdir(), 'revtrace-cli-synth-bad-'));
     const cases: [string[], RegExp][] = [

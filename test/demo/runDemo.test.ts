@@ -15,6 +15,7 @@ describe('revtrace demo (reduced day)', () => {
     expect(existsSync(outcome.report_path)).toBe(true);
     const html = await readFile(outcome.report_path, 'utf8');
     expect(html).toContain('<html');
+    for (const run of outcome.runs) expect(html, run.run).toContain(run.run);
 
     const byRun = new Map(outcome.batch.records.map((r) => [r.run, r]));
     expect(byRun.size).toBe(outcome.runs.length);
@@ -27,6 +28,9 @@ describe('revtrace demo (reduced day)', () => {
         continue;
       }
       expect(record.status, `${run.run}: ${record.error}`).toBe('ok');
+      // the truth is the rate the clip was rendered with: the steady rate, or the terminal rate of a spin-up
+      const profile = run.spec.profile as { kind: string; rate_deg_s?: number; terminal_rate_deg_s?: number };
+      expect(run.truth_rate_deg_s, run.run).toBe(profile.kind === 'spinup' ? profile.terminal_rate_deg_s : profile.rate_deg_s);
       const est = record.fit?.steady?.rate_deg_s ?? record.fit?.spinup?.terminal_rate_deg_s;
       expect(est, `${run.run} has a rate`).toBeDefined();
       const [lo, hi] = est!.ci;

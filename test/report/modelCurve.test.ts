@@ -8,7 +8,8 @@ const base = { n: 0, method: '', diagnostics: { residual_autocorrelation: [], lo
 const times = (t0: number, t1: number, n: number) => Float64Array.from({ length: n }, (_, i) => t0 + ((t1 - t0) * i) / (n - 1));
 
 // The model curves drawn in the report are checked against the synthetic renderer's closed forms
-// (src/synth/rotationProfile.ts), an independent implementation of the same physics.
+// (src/synth/rotationProfile.ts), an independent implementation of the same physics that shares no code with
+// modelCurve and is itself checked against closed forms and an RK4 integration in test/synth/rotationProfile.test.ts.
 describe('modelCurve', () => {
   it('draws a spin-up with the fitted onset, time constant, terminal rate and start angle', () => {
     const t = times(0, 8, 200);

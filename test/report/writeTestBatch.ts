@@ -28,6 +28,7 @@ export interface TestRun {
 }
 
 const estimate = (value: number, se: number, df = 30) => {
+  // two-sided 95 % Student t quantiles for 30 and 10 degrees of freedom, 2.042 and 2.228 (published t tables, from memory)
   const t = df >= 30 ? 2.042 : 2.228;
   return { value, se, ci: [value - t * se, value + t * se] as [number, number], level: 0.95 };
 };

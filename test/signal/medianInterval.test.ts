@@ -21,6 +21,7 @@ describe('medianInterval', () => {
     }
   });
 
+  // medianInterval's own convention (so the result is always one of the intervals): checked against a sort written here
   it('takes the lower middle value for an even number of intervals', () => {
     const t = jitteredTimes(11, 7);
     const sorted = t.slice(1).map((v, i) => v - t[i]!).sort((a, b) => a - b);

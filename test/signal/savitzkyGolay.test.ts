@@ -36,6 +36,8 @@ describe('savitzkyGolayCoefficients against the published tables', () => {
 });
 
 describe('localPolynomialAt on real time', () => {
+  // Reference: the Savitzky–Golay weights, themselves checked against the published tables above (a different
+  // code path: a fixed convolution instead of a least-squares fit on real times).
   it('reproduces the Savitzky–Golay filter on equally spaced samples (spacing 1/60 s)', () => {
     const dt = 1 / 60;
     const t = Float64Array.from({ length: 40 }, (_, i) => 1000 + i * dt);
@@ -56,6 +58,7 @@ describe('localPolynomialAt on real time', () => {
     expect(f.valueFactor).toBeCloseTo(7 / 21, 12);
   });
 
+  // a local quadratic fit is exact on a quadratic (least squares, common practice, no source): truth 40 + 6(t − 3600)
   it('differentiates a quadratic exactly on irregular times far from zero', () => {
     const t: number[] = [];
     let tt = 3600;

@@ -15,6 +15,8 @@ function messageFor(input: unknown): string {
 }
 
 describe('resolveSynthSpec', () => {
+  // the defaults are design choices, checked against the README's synth option table (size, fps, duration, seed,
+  // rate 90 deg/s, flicker 3 Hz, shake 4 Hz, particle size 5 px and speed 60 px/s; every effect off)
   it('fills defaults with every realism effect off', () => {
     const s = resolveSynthSpec({});
     expect(s).toMatchObject({ seed: 1, width_px: 320, height_px: 240, fps: 30, duration_s: 2, channels: 1 });

@@ -20,10 +20,12 @@ describe('renderClip', () => {
       });
       const video = join(dir, 'clip.mp4');
       const clip = await renderClip(spec, video);
-      expect(clip.frame_count).toBe(28);
+      expect(clip.frame_count).toBe(28); // 1 s × 30 fps, frames 4 and 17 dropped
       expect(clip.truthPath).toBe(join(dir, 'clip.truth.csv'));
 
-      // decoded by ffmpeg through the video stage: the bytes come back exactly (lossless) at the truth times
+      // Truth: the renderer's own frames and truth table (our renderer; known by construction). Decoded by ffmpeg
+      // through the video stage (itself checked against ffmpeg/ffprobe in test/video): the bytes come back
+      // exactly (lossless) at the truth times.
       let n = 0;
       for await (const frame of readFrames(video)) {
         expect(Math.abs(frame.t_s - clip.truth.t_s[n])).toBeLessThan(1e-5);
@@ -54,10 +56,14 @@ describe('renderClip', () => {
     const dir = await mkdtemp(join(tmpdir(), 'revtrace-synth-'));
     try {
       const rgb = await renderClip({ duration_s: 0.3, markers: [{ kind: 'color', rgb: [30, 200, 60] }] }, join(dir, 'rgb.mp4'));
+      let rgbFrames = 0;
       for await (const frame of readFrames(rgb.videoPath, { pixels: 'rgb' })) {
-        expect(Buffer.compare(Buffer.from(frame.data), Buffer.from(renderFrame(rgb.spec, frame.t_s, 0).data))).toBe(0);
-        break;
+        expect(frame.channels).toBe(3);
+        expect(Math.abs(frame.t_s - rgb.truth.t_s[rgbFrames])).toBeLessThan(1e-5);
+        expect(Buffer.compare(Buffer.from(frame.data), Buffer.from(renderFrame(rgb.spec, rgb.truth.t_s[rgbFrames], rgbFrames).data))).toBe(0);
+        rgbFrames++;
       }
+      expect(rgbFrames).toBe(9); // 0.3 s at the default 30 fps
       const lossy = await renderClip({ duration_s: 0.3, markers: [{ radius_px: 80, size_px: 4 }], realism: { crf: 28 } }, join(dir, 'lossy.mp4'));
       let n = 0;
       for await (const frame of readFrames(lossy.videoPath)) {

@@ -22,7 +22,7 @@ describe('revtrace synth (needs npm run build)', () => {
       expect(sidecar.spec.realism.oblique).toEqual({ tilt_deg: 30, axis_deg: 15 });
       expect(sidecar.spec.markers[0]).toMatchObject({ radius_px: 40, size_px: 3, kind: 'dark' });
       const truth = await readFile(join(dir, 'a.truth.csv'), 'utf8');
-      expect(truth.trim().split('\n')).toHaveLength(1 + 14);
+      expect(truth.trim().split('\n')).toHaveLength(1 + 14); // header + 0.5 s × 30 fps = 15 frames, one dropped
 
       const again = run(['synth', '--out', 'b.mp4', '--spec', 'a.synth.json', '--quiet'], dir);
       expect(again.status).toBe(0);

@@ -73,7 +73,8 @@ describe('createSpotFollower', () => {
 
 describe('colour similarity', () => {
   // Reference values: sRGB → CIELAB (D65) for pure red and white, as tabulated by Bruce Lindbloom's colour
-  // calculator (brucelindbloom.com): red (255,0,0) → L 53.24, a 80.09, b 67.20; white → L 100, a 0, b 0.
+  // calculator (brucelindbloom.com): red (255,0,0) → L 53.24, a 80.09, b 67.20; white → L 100, a 0, b 0
+  // (values from memory; they agree with the sRGB (IEC 61966-2-1) and CIELAB (CIE 15) formulas evaluated separately).
   it('converts sRGB to CIELAB like the published tables', () => {
     const red = rgbToLab(255, 0, 0);
     expect(red.L).toBeCloseTo(53.24, 1);
@@ -84,6 +85,7 @@ describe('colour similarity', () => {
     expect(Math.abs(white.a)).toBeLessThan(0.05);
   });
 
+  // design thresholds of the similarity table (no outside source): the marker colour scores near the top, other hues 0
   it('scores the marker colour high and other colours zero', () => {
     const t = colourSimilarityTable([220, 40, 40], 40);
     const at = (r: number, g: number, b: number) => t[((r >> 2) << 12) | ((g >> 2) << 6) | (b >> 2)];

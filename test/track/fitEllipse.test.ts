@@ -98,6 +98,7 @@ describe('fitEllipseRobust', () => {
     expect(fit.rms_px).toBeLessThan(0.2);
   });
 
+  // a circle of radius 100: points 3 px outside and inside lie ±3 px from the curve (geometry, common practice, no source)
   it('measures distance from the curve in pixels', () => {
     const e = { cx_px: 0, cy_px: 0, semi_major_px: 100, semi_minor_px: 100, major_axis_deg: 0 };
     expect(sampsonDistance(e, 103, 0)).toBeCloseTo(3, 1);

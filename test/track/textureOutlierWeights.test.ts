@@ -12,6 +12,7 @@ const pattern = (shift: number) =>
     return 100 + 30 * Math.sin(2 * a + r) + 20 * Math.cos(5 * a - 0.5 * r);
   });
 
+// Truth: patterns built here in closed form and weights worked by hand in the comments (no outside source needed).
 describe('outlierWeights', () => {
   it('gives weight 0 to a blob that does not turn with the pattern (and its neighbours), about 1 elsewhere', () => {
     const ref = pattern(0);

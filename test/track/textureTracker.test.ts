@@ -47,6 +47,8 @@ describe('createTextureTracker', () => {
     expect(Math.abs(mean(errors.slice(-10)))).toBeLessThan(0.02);
     // The first frame stayed the reference (re-made once after each centre refinement).
     expect(tracker.references_made).toBe(1 + tracker.centre_refinements);
+    // the documented default schedule refines once each at 20°, 60° and 150° of turn (refine_centre_at_deg in
+    // src/track/textureTracker.ts); this run turns about 720°, past all three
     expect(tracker.centre_refinements).toBe(3);
     expect(Math.hypot(tracker.centre_px.x_px - scene.cx, tracker.centre_px.y_px - scene.cy)).toBeLessThan(0.02);
   });

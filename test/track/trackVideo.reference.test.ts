@@ -27,8 +27,8 @@ function demean(a: number[]): number[] {
 
 describe('trackVideo against a hub drawn and turned by ffmpeg’s own filters', () => {
   // Reference: ffmpeg's lavfi `geq` draws a gray disc with a bright spot, `rotate` turns it by the angle
-  // expression a(t) = 3·t rad. ffmpeg's documentation for `rotate`: the angle is in radians and a negative
-  // value rotates counterclockwise, i.e. positive = clockwise as displayed. Our angles are counterclockwise
+  // expression a(t) = 3·t rad. ffmpeg's documentation for `rotate` (quoted from memory): the angle is in radians
+  // and a negative value rotates counterclockwise, i.e. positive = clockwise as displayed. Our angles are counterclockwise
   // positive, so the tracked angle must equal −a(t) (in degrees) up to a constant; a sign error would
   // show up as a 2·172°/s drift.
   it('measures −a(t) with RMS error ≤ 0.1° at each frame’s own time', async () => {

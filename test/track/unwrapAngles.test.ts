@@ -5,6 +5,9 @@ import { arcCoverage } from '../../src/track/arcCoverage.js';
 
 const wrapAll = (a: number[]) => Float64Array.from(a, wrapDeg);
 
+// Truth: angle series and points built here in closed form (uniform rotation, plane geometry; common practice,
+// no source); the code under test only sees them wrapped or projected.
+
 describe('unwrapAngles', () => {
   it('follows a steady rotation of 50° per frame through many turns', () => {
     const n = 100;

@@ -1,6 +1,7 @@
 import { describe, expect, it, beforeAll } from 'vitest';
 import { chmodSync, writeFileSync, readFileSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
+import { execFileSync } from 'node:child_process';
 import { readFrames } from '../../src/video/readFrames.js';
 import { locateTools, locateTool } from '../../src/video/locateTools.js';
 import { FfmpegError } from '../../src/video/FfmpegError.js';
@@ -64,7 +65,8 @@ describe('locateTools', () => {
     const tools = await locateTools({ ffmpeg: FFMPEG });
     expect(tools.ffmpeg.path).toBe(FFMPEG);
     expect(tools.ffmpeg.source).toBe('option');
-    expect(tools.ffmpeg.version).toMatch(/\S/);
+    // Reference: the version the binary itself prints (`ffmpeg -version`, third word of the first line)
+    expect(tools.ffmpeg.version).toBe(execFileSync(FFMPEG, ['-version']).toString().split(' ')[2]);
     expect(tools.ffmpeg.passthroughArgs[1]).toBe('passthrough');
   });
 
