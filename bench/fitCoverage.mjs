@@ -1,6 +1,7 @@
 // Coverage of the steady-rate interval under five noise scenarios (seeded Monte Carlo), beside the
 // coverage of a naive least-squares interval; and the white-noise variance against the Cramér–Rao bound.
-// Run: npm run build && node bench/fitCoverage.mjs [replicates=1000] [seconds=60]
+// Run: npm run build && node bench/fitCoverage.mjs [replicates=1000] [seconds=60] [seed offset=0]
+// (a non-zero offset moves every seed, to check that the figures are not an artefact of one seed set)
 import { fitSteadyRate } from '../dist/fit/steadyRate.js';
 import { linearLeastSquares } from '../dist/fit/linearLeastSquares.js';
 import { simulateSteady, normalSource, SCENARIOS } from './fitScenarios.mjs';
@@ -9,12 +10,13 @@ import jstatModule from 'jstat';
 const { jStat } = jstatModule;
 const reps = Number(process.argv[2] ?? 1000);
 const seconds = Number(process.argv[3] ?? 60);
+const offset = Number(process.argv[4] ?? 0);
 const fps = 60;
 const n = Math.round(seconds * fps);
 const rate = 0.8;
 
-console.log(`steady-rate coverage, ${reps} replicates per scenario, ${n} frames (${seconds} s at ${fps} fps), true rate ${rate} deg/s, nominal 95%`);
-console.log('scenario | coverage | naive OLS coverage | mean se / sd of estimate | share with a walk part | segment test p < 0.05 | p < 0.01 | ms per fit');
+console.log(`steady-rate coverage, ${reps} replicates per scenario, ${n} frames (${seconds} s at ${fps} fps), true rate ${rate} deg/s, nominal 95%, seed offset ${offset}`);
+console.log('scenario | coverage | naive OLS coverage | mean se / sd of estimate | share with a walk part | median df (jackknife alone) | segment test p < 0.05 | p < 0.01 | ms per fit');
 for (const [si, sc] of SCENARIOS.entries()) {
   let cover = 0;
   let coverNaive = 0;
@@ -23,13 +25,17 @@ for (const [si, sc] of SCENARIOS.entries()) {
   let seSum = 0;
   let seg05 = 0;
   let seg01 = 0;
+  const dfs = [];
+  const jackDfs = [];
   const started = performance.now();
   for (let r = 0; r < reps; r++) {
-    const { t_s, angle_deg } = simulateSteady({ seed: 1000 * si + r + 1, n, fps, t0_s: 3600, rate_deg_s: rate, ...sc.noise });
+    const { t_s, angle_deg } = simulateSteady({ seed: 1000 * si + r + 1 + offset, n, fps, t0_s: 3600, rate_deg_s: rate, ...sc.noise });
     const fit = fitSteadyRate(t_s, angle_deg, { level: 0.95 });
     const e = fit.result.rate_deg_s;
     if (e.ci[0] <= rate && rate <= e.ci[1]) cover++;
     if (fit.noise.walk_deg2_per_s > 0) integrated++;
+    dfs.push(fit.df);
+    jackDfs.push(fit.jackknife_df);
     est.push(e.value);
     if (fit.segment_p_value !== null && fit.segment_p_value < 0.05) seg05++;
     if (fit.segment_p_value !== null && fit.segment_p_value < 0.01) seg01++;
@@ -42,8 +48,9 @@ for (const [si, sc] of SCENARIOS.entries()) {
   const mean = est.reduce((a, b) => a + b, 0) / reps;
   const sd = Math.sqrt(est.reduce((a, b) => a + (b - mean) ** 2, 0) / (reps - 1));
   const ms = (performance.now() - started) / reps;
+  const median = (a) => a.sort((x, y) => x - y)[Math.floor(a.length / 2)];
   console.log(
-    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${(100 * seg05 / reps).toFixed(1)}% | ${(100 * seg01 / reps).toFixed(1)}% | ${ms.toFixed(1)} ms/fit`,
+    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${median(dfs).toFixed(1)} (${median(jackDfs).toFixed(1)}) | ${(100 * seg05 / reps).toFixed(1)}% | ${(100 * seg01 / reps).toFixed(1)}% | ${ms.toFixed(1)} ms/fit`,
   );
 }
 
@@ -53,7 +60,7 @@ for (const [si, sc] of SCENARIOS.entries()) {
   const est = [];
   let stt = 0;
   for (let r = 0; r < reps; r++) {
-    const { t_s, angle_deg } = simulateSteady({ seed: 900000 + r, n, fps, rate_deg_s: rate, white_deg: sigma });
+    const { t_s, angle_deg } = simulateSteady({ seed: 900000 + r + offset, n, fps, rate_deg_s: rate, white_deg: sigma });
     est.push(fitSteadyRate(t_s, angle_deg).result.rate_deg_s.value);
     if (r === 0) {
       const mt = t_s.reduce((a, b) => a + b, 0) / t_s.length;
@@ -75,7 +82,7 @@ for (const [si, sc] of SCENARIOS.entries()) {
     let b05 = 0;
     let b01 = 0;
     for (let r = 0; r < reps; r++) {
-      const seed = 700000 + r;
+      const seed = 700000 + r + offset;
       const { t_s, angle_deg } = simulateSteady({ seed, n: 240, fps: 30, rate_deg_s: -2.6, white_deg: 0.03, ar_phi: 0.7, ar_sd_deg: 0.02 });
       const phase = 3 * normalSource(seed + 99)();
       const a = Float64Array.from(angle_deg, (v, i) => v + 0.02 * Math.sin(2 * Math.PI * 2.5 * t_s[i] + phase) + (t_s[i] > 4 ? step * (t_s[i] - 4) : 0));

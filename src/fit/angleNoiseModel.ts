@@ -27,6 +27,71 @@ export function noiseVariogram(m: AngleNoiseModel, tau_s: number): number {
   return 2 * m.white_var_deg2 + 2 * m.ar_var_deg2 * (1 - Math.exp(-tau_s / m.ar_time_s)) + m.walk_deg2_per_s * tau_s;
 }
 
+/** A positive parameter of an AngleNoiseModel (the ones noiseInformation can score). */
+export type NoiseParameter = 'white_var_deg2' | 'ar_var_deg2' | 'ar_time_s' | 'walk_deg2_per_s';
+
+/** Fisher information of the positive noise-model parameters on the log scale (dimensionless), row-major. */
+export interface NoiseInformation {
+  parameters: NoiseParameter[];
+  information: Float64Array;
+}
+
+/**
+ * Whittle (1953) Fisher information of the positive parameters of an AngleNoiseModel, on the log scale,
+ * for a regular series of `frames` frames every delta_s. The frame-to-frame increments of the angle are
+ * stationary with spectral density (per frame) f(λ) = qδ + (2 − 2cos λ)·(σ² + s²(1 − φ²)/(1 − 2φcos λ + φ²)),
+ * φ = exp(−δ/τ_c); each periodogram ordinate at a Fourier frequency λ_j = 2πj/m, 0 < j < m/2, of the
+ * m = frames − 1 increments is about f(λ_j) times a unit exponential, worth unit information about ln f(λ_j),
+ * so the Whittle approximation gives I_ab = Σ_j ∂_a ln f(λ_j)·∂_b ln f(λ_j) (e.g. Brockwell & Davis,
+ * Time Series: Theory and Methods, 2nd ed. 1991, §10.8). Parameters at zero (a model without that part)
+ * are left out, and so are those listed in `fixed` (e.g. a correlation time held at a bound of its search range).
+ * Lost frames are ignored (it describes the regular series of the same length).
+ */
+export function noiseInformation(model: AngleNoiseModel, delta_s: number, frames: number, fixed: readonly NoiseParameter[] = []): NoiseInformation {
+  const parameters: NoiseParameter[] = [];
+  if (model.white_var_deg2 > 0) parameters.push('white_var_deg2');
+  if (model.ar_var_deg2 > 0 && model.ar_time_s > 0) parameters.push('ar_var_deg2', 'ar_time_s');
+  if (model.walk_deg2_per_s > 0) parameters.push('walk_deg2_per_s');
+  for (const name of fixed) if (parameters.includes(name)) parameters.splice(parameters.indexOf(name), 1);
+  const p = parameters.length;
+  const information = new Float64Array(p * p);
+  const m = Math.max(0, Math.round(frames) - 1);
+  const white = model.white_var_deg2;
+  const s2 = model.ar_var_deg2;
+  const walk = model.walk_deg2_per_s * delta_s;
+  const phi = s2 > 0 ? Math.exp(-delta_s / model.ar_time_s) : 0;
+  const dPhi = s2 > 0 ? phi * (delta_s / model.ar_time_s) : 0; // ∂φ/∂ln τ_c
+  const g = new Float64Array(p);
+  for (let j = 1; 2 * j < m; j++) {
+    const c = Math.cos((2 * Math.PI * j) / m);
+    const diff = 2 - 2 * c;
+    const den = 1 - 2 * phi * c + phi * phi;
+    const ar = (s2 * (1 - phi * phi)) / den;
+    const f = walk + diff * (white + ar);
+    if (!(f > 0)) continue;
+    const dArDPhi = (s2 * (-2 * phi * den - (1 - phi * phi) * (2 * phi - 2 * c))) / (den * den);
+    for (let a = 0; a < p; a++) {
+      const name = parameters[a]!;
+      g[a] =
+        name === 'white_var_deg2' ? (diff * white) / f
+        : name === 'ar_var_deg2' ? (diff * ar) / f
+        : name === 'ar_time_s' ? (diff * dArDPhi * dPhi) / f
+        : walk / f;
+    }
+    for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) information[a * p + b]! += g[a]! * g[b]!;
+  }
+  return { parameters, information };
+}
+
+/**
+ * Range of AR correlation times fitAngleNoiseModel searches, s: from half the mean frame interval to a fraction
+ * of the window (options.maxCorrelationFraction, default 1/80), for a window of duration_s over `frames` frames.
+ */
+export function correlationTimeRange(duration_s: number, frames: number, options: AngleNoiseModelOptions = {}): { min_s: number; max_s: number } {
+  const delta = duration_s / Math.max(1, frames - 1);
+  return { min_s: delta / 2, max_s: Math.max(duration_s * (options.maxCorrelationFraction ?? 1 / 80), delta) };
+}
+
 /** Non-negative weighted least squares for ≤ 3 unknowns by trying every active set (exact for tiny problems). */
 function nnls3(basis: Float64Array[], target: Float64Array, weight: Float64Array): { coef: number[]; loss: number } {
   const p = basis.length;
@@ -122,7 +187,6 @@ export function fitAngleNoiseModel(t_s: Float64Array, y: Float64Array, options: 
     tau[i] = tauSum / count;
   });
   const duration = t_s[n - 1]! - t_s[0]!;
-  const delta = tau[0]! > 0 ? tau[0]! : duration / Math.max(1, n - 1);
   const floor = Math.max(...v) * 1e-12 + Number.MIN_VALUE;
   const weight = Float64Array.from(v, (val, i) => 1 / (Math.max(val, floor) ** 2 * (1 + lags[i]!)));
   const ones = new Float64Array(v.length).fill(2);
@@ -137,11 +201,10 @@ export function fitAngleNoiseModel(t_s: Float64Array, y: Float64Array, options: 
   let best: { model: AngleNoiseModel; loss: number } | null = null;
   let bestNoWalk: { model: AngleNoiseModel; loss: number } | null = null;
   const grid = 30;
-  const tcMin = delta / 2;
   // AR parts slower than 1/80 of the window (a fifth of one of the 16 batches of the steady fit's standard
   // error) cannot be told reliably from a wandering angle in one window: they are left to the walk part,
   // the conservative reading (our choice, tuned by the seeded coverage study in bench/fitCoverage.mjs).
-  const tcMax = Math.max(duration * (options.maxCorrelationFraction ?? 1 / 80), delta);
+  const { min_s: tcMin, max_s: tcMax } = correlationTimeRange(duration, n, options);
   for (let g = 0; g < grid; g++) {
     const tc = tcMin * (tcMax / tcMin) ** (g / (grid - 1));
     const arBasis = Float64Array.from(tau, (tt) => 2 * (1 - Math.exp(-tt / tc)));

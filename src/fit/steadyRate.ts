@@ -2,8 +2,8 @@ import jstatModule from 'jstat';
 import type { Estimate, SegmentRate, SteadyResult } from './FitReport.js';
 import type { ModelFit } from './ModelFit.js';
 import { linearLeastSquares } from './linearLeastSquares.js';
-import { fitAngleNoiseModel, type AngleNoiseModel } from './angleNoiseModel.js';
-import { kalmanWhiten } from './stateSpaceGls.js';
+import { correlationTimeRange, fitAngleNoiseModel, noiseInformation, type AngleNoiseModel, type NoiseParameter } from './angleNoiseModel.js';
+import { kalmanGains, kalmanWhiten, whitenWithGains, type WhitenedRegression } from './stateSpaceGls.js';
 import { medianInterval } from '../signal/medianInterval.js';
 import { zeroTest } from './zeroTest.js';
 import { minDetectableRate } from './minDetectableRate.js';
@@ -33,8 +33,10 @@ export interface SteadyNoiseModel extends AngleNoiseModel {
 /** A steady fit: the report block plus the model-fit shape shared with the other models. */
 export interface SteadyRateFit extends ModelFit<SteadyResult> {
   noise: SteadyNoiseModel;
-  /** Degrees of freedom of the Student-t reference. */
+  /** Degrees of freedom of the Student-t reference (jackknifeDfWithNoiseModel). */
   df: number;
+  /** Degrees of freedom of the jackknife alone (its Satterthwaite df; df above also counts the noise model's uncertainty). */
+  jackknife_df: number;
   /** The GLS standard error the noise model alone implies, deg/s (for comparison with the jackknife one). */
   model_se_deg_s: number;
   /** Segment homogeneity: p-value of an F test that all segment rates are equal (segmentHomogeneityP; null with one segment). */
@@ -50,6 +52,8 @@ interface SlopeFit {
   batches: number;
   /** Model-based standard error (classical GLS: right when the noise model is right). */
   modelSe: number;
+  /** Relative jackknife bias per relative error of the whitening walk (κ, see glsSlope); 0 without a walk part or when not asked for. */
+  walkKappa: number;
 }
 
 /** Number of batches for the jackknife standard error of a fit on m rows: 8, fewer so each holds ≥ 5 rows, at least 2. */
@@ -136,9 +140,14 @@ function jackknifeDf(grams: Float64Array[]): { df: number; scale: number } {
  * Student-t with the Satterthwaite df of that variance (jackknifeDf; at most B − 1; fixed-b inference).
  * The jackknife accounts for the high leverage of the end batches in a trend fit, which plain batch means
  * of the score do not (they under-cover by several points). Whatever slow wander the noise model misses stays
- * in the batches and widens the interval.
+ * in the batches and widens the interval (in part: walkSensitivity). With `withWalkKappa` (whole window only:
+ * it costs 4B extra whitening passes) it also returns κ, the relative bias the jackknife picks up per relative
+ * error of the whitening walk q̂: κ = ∂ln(E[jackknife variance]/Var(ω̂))/∂ln q̂ at q̂ = q
+ * = q·(trueVar − factor·jackknifeVar)/Φ, Φ the model-based slope variance. When the truth has walk q and the
+ * rows are whitened with q̂, E[jackknife variance] = Φ(q̂) + (q − q̂)·factor·jackknifeVar and
+ * Var(ω̂) = Φ(q̂) + (q − q̂)·trueVar (walkSensitivity), and ∂Φ/∂q = trueVar (GLS is optimal at q̂ = q).
  */
-function glsSlope(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel, mostBatches = 8): SlopeFit {
+function glsSlope(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel, mostBatches = 8, withWalkKappa = false): SlopeFit {
   const w = kalmanWhiten(t, y, lo, hi, model);
   const m = hi - lo;
   const fit = linearLeastSquares([w.one, w.t], w.y);
@@ -170,7 +179,153 @@ function glsSlope(t: Float64Array, y: Float64Array, lo: number, hi: number, mode
   const mean = leaveOut.reduce((a, v) => a + v, 0) / b;
   const varSlope = ((b - 1) / b) * leaveOut.reduce((a, v) => a + (v - mean) ** 2, 0);
   const { df, scale } = jackknifeDf(sums);
-  return { slope: c1, se: Math.sqrt(varSlope * scale), df, intercept: c0, batches: b, modelSe: fit.se[1]! };
+  let walkKappa = 0;
+  if (withWalkKappa && model.walk_deg2_per_s > 0) {
+    const { trueVar, jackknifeVar } = walkSensitivity(t, lo, hi, model, w, b);
+    const phi = fit.inverseGram[3]!;
+    walkKappa = phi > 0 ? (model.walk_deg2_per_s * (trueVar - scale * jackknifeVar)) / phi : 0;
+  }
+  return { slope: c1, se: Math.sqrt(varSlope * scale), df, intercept: c0, batches: b, modelSe: fit.se[1]!, walkKappa };
+}
+
+/**
+ * Slope and delete-a-batch jackknife variance (before the bias factor of jackknifeDf) of a whitened series z that
+ * is zero before row `from`, regressed on the whitened design whose per-batch Gram sums [s11, s12, s22] are
+ * `grams` (batch b covers rows bounds[b]…bounds[b+1]−1). Only the sums Σx·z are needed: a batch's residual sums
+ * are Σx·z − c0·Σx·one − c1·Σx·t.
+ */
+function stepJackknife(w: WhitenedRegression, grams: Float64Array[], bounds: number[], z: Float64Array, from: number): { slope: number; variance: number } {
+  const b = grams.length;
+  const zOne = new Float64Array(b);
+  const zT = new Float64Array(b);
+  let batch = 0;
+  for (let k = from; k < z.length; k++) {
+    while (k >= bounds[batch + 1]!) batch++;
+    zOne[batch]! += w.one[k]! * z[k]!;
+    zT[batch]! += w.t[k]! * z[k]!;
+  }
+  let s11 = 0, s12 = 0, s22 = 0, s1z = 0, s2z = 0;
+  for (let i = 0; i < b; i++) {
+    s11 += grams[i]![0]!;
+    s12 += grams[i]![1]!;
+    s22 += grams[i]![2]!;
+    s1z += zOne[i]!;
+    s2z += zT[i]!;
+  }
+  const det = s11 * s22 - s12 * s12;
+  const c0 = det > 0 ? (s22 * s1z - s12 * s2z) / det : 0;
+  const c1 = det > 0 ? (s11 * s2z - s12 * s1z) / det : s2z / s22;
+  const leaveOut: number[] = [];
+  for (let i = 0; i < b; i++) {
+    const [a11, a12, a22] = [grams[i]![0]!, grams[i]![1]!, grams[i]![2]!];
+    const a1r = zOne[i]! - c0 * a11 - c1 * a12;
+    const a2r = zT[i]! - c0 * a12 - c1 * a22;
+    leaveOut.push(c1 + slopeFromSums(s11 - a11, s12 - a12, s22 - a22, -a1r, -a2r));
+  }
+  const mean = leaveOut.reduce((acc, v) => acc + v, 0) / b;
+  return { slope: c1, variance: ((b - 1) / b) * leaveOut.reduce((acc, v) => acc + (v - mean) ** 2, 0) };
+}
+
+/**
+ * How a random walk that the noise model leaves out would show up: an extra walk of diffusion Δq (deg²/s) adds
+ * Δq·trueVar to the slope's variance and Δq·jackknifeVar to the expected jackknife variance (before its bias
+ * factor). The walk is a sum of independent unit steps, one per frame interval, of variance Δq·δt_k, and both
+ * statistics are linear (the GLS slope) or quadratic (the jackknife) in the whitened data, so
+ * trueVar = Σ_k δt_k·s_k² and jackknifeVar = Σ_k δt_k·J_k, with s_k the GLS slope and J_k the jackknife variance
+ * of a unit step at frame k put through the same whitening (whitenWithGains). The sums are taken over 4 steps per
+ * batch, each standing for its share of the window. Both are slope variances per unit diffusion, (deg/s)² per (deg²/s).
+ */
+function walkSensitivity(t: Float64Array, lo: number, hi: number, model: AngleNoiseModel, w: WhitenedRegression, b: number): { trueVar: number; jackknifeVar: number } {
+  const m = hi - lo;
+  const steps = Math.min(m - 1, 4 * b);
+  const gains = kalmanGains(t, lo, hi, model);
+  const bounds = Array.from({ length: b + 1 }, (_, i) => Math.floor((m * i) / b));
+  const grams = Array.from({ length: b }, (_, i) => {
+    const g = new Float64Array(3);
+    for (let k = bounds[i]!; k < bounds[i + 1]!; k++) {
+      g[0]! += w.one[k]! * w.one[k]!;
+      g[1]! += w.one[k]! * w.t[k]!;
+      g[2]! += w.t[k]! * w.t[k]!;
+    }
+    return g;
+  });
+  const one = (): number => 1;
+  let trueVar = 0;
+  let jackknifeVar = 0;
+  for (let j = 0; j < steps; j++) {
+    const from = Math.floor((m * j) / steps);
+    const to = Math.floor((m * (j + 1)) / steps);
+    const at = Math.max(1, Math.floor((from + to) / 2));
+    const span = t[lo + Math.min(to, m - 1)]! - t[lo + Math.min(from, m - 1)]!;
+    const z = whitenWithGains(gains, one, at);
+    const { slope, variance } = stepJackknife(w, grams, bounds, z, at);
+    trueVar += span * slope * slope;
+    jackknifeVar += span * variance;
+  }
+  return { trueVar, jackknifeVar };
+}
+
+/** Solves the small symmetric system a·x = b (Gaussian elimination, partial pivoting); null when a is singular. */
+function solveSmall(a: Float64Array, b: Float64Array): Float64Array | null {
+  const p = b.length;
+  const m = Array.from({ length: p }, (_, i) => [...a.slice(i * p, i * p + p), b[i]!]);
+  let scale = 0;
+  for (let i = 0; i < p; i++) scale = Math.max(scale, Math.abs(a[i * p + i]!));
+  for (let c = 0; c < p; c++) {
+    let piv = c;
+    for (let r = c + 1; r < p; r++) if (Math.abs(m[r]![c]!) > Math.abs(m[piv]![c]!)) piv = r;
+    [m[c], m[piv]] = [m[piv]!, m[c]!];
+    const pv = m[c]![c]!;
+    if (!(Math.abs(pv) > 1e-12 * scale)) return null;
+    for (let r = 0; r < p; r++) {
+      if (r === c) continue;
+      const f = m[r]![c]! / pv;
+      for (let k = c; k <= p; k++) m[r]![k]! -= f * m[c]![k]!;
+    }
+  }
+  return Float64Array.from(m, (row, i) => row[p]! / row[i]!);
+}
+
+/**
+ * Variance of ln q̂, the log walk diffusion of the noise model, from the Whittle information of its positive
+ * parameters (noiseInformation; the [ln q, ln q] element of I⁻¹, so what the window cannot tell apart from the
+ * walk — the AR part — widens it). A correlation time at a bound of the fit's search range
+ * (correlationTimeRange) was not estimated freely and is held fixed. Infinity when the information matrix is
+ * singular; 0 without a walk.
+ * @param delta_s median frame interval, s; duration_s window length, s; frames number of frames in the window
+ */
+export function logWalkVariance(model: AngleNoiseModel, delta_s: number, duration_s: number, frames: number): number {
+  if (!(model.walk_deg2_per_s > 0)) return 0;
+  const range = correlationTimeRange(duration_s, frames);
+  const atBound = Math.abs(model.ar_time_s / range.max_s - 1) < 1e-9 || Math.abs(model.ar_time_s / range.min_s - 1) < 1e-9;
+  const fixed: NoiseParameter[] = atBound ? ['ar_time_s'] : [];
+  const { parameters, information } = noiseInformation(model, delta_s, Math.round(duration_s / delta_s) + 1, fixed);
+  const unit = Float64Array.from(parameters, (name) => (name === 'walk_deg2_per_s' ? 1 : 0));
+  const x = solveSmall(information, unit);
+  const v = x ? x[parameters.indexOf('walk_deg2_per_s')]! : Infinity;
+  return v > 0 ? v : Infinity;
+}
+
+/**
+ * Degrees of freedom of the jackknife variance when the noise model that whitened its rows is itself an estimate
+ * (Satterthwaite 1946: ν = 2/(relative variance of the variance estimate)). The jackknife's own sampling error
+ * has relative SD √(2/ν_J) (ν_J from jackknifeDf). An error in the fitted walk q̂ moves its expectation by the
+ * relative amount κ·(ln q̂ − ln q) (κ from glsSlope/walkSensitivity: a walk the model misses is seen only in part
+ * by the batches, so an under-estimated walk leaves the jackknife low), with SD(ln q̂) from the Whittle
+ * information (logWalkVariance; the Cramér–Rao bound, so somewhat optimistic for the variogram fit).
+ * Both errors come from the same few low-frequency ordinates — a window whose walk happened to wander little
+ * gives a small q̂ and small batch spreads together — so their SDs are added (full positive correlation, the
+ * Cauchy–Schwarz bound) rather than their variances: ν = 2/(√(2/ν_J) + |κ|·SD(ln q̂))². This is the
+ * Satterthwaite step Kenward & Roger (1997, Biometrics 53:983) apply to a variance that depends on estimated
+ * covariance parameters. Equals ν_J without a walk part or when the batches see a missed walk in full (κ = 0);
+ * at least 1. Conservative where the fitted walk is biased upward — in short windows the correlation-time cap of
+ * fitAngleNoiseModel hands slow AR noise to the walk, and over-whitening only widens the jackknife.
+ */
+export function jackknifeDfWithNoiseModel(nuJackknife: number, kappa: number, logWalkVar: number): number {
+  if (!(kappa !== 0) || !(logWalkVar > 0)) return nuJackknife;
+  if (!Number.isFinite(logWalkVar)) return 1;
+  const relativeSd = Math.sqrt(2 / nuJackknife) + Math.abs(kappa) * Math.sqrt(logWalkVar);
+  return Math.min(nuJackknife, Math.max(1, 2 / (relativeSd * relativeSd)));
 }
 
 function estimate(value: number, se: number, df: number, level: number): Estimate {
@@ -227,11 +382,17 @@ export function segmentHomogeneityP(fits: readonly { slope: number; se: number; 
  * 2. GLS of angle on time for that noise model by a Kalman filter (kalmanWhiten), exact on irregular times.
  *    For white noise this is ordinary least squares (efficient: the Cramér–Rao bound); for a random walk it
  *    is the mean of the increments; in between it weighs both continuously — no switch between regimes.
- * 3. Standard error: delete-a-batch (block) jackknife over B contiguous batches of the whitened rows,
- *    Student-t with up to B − 1 df (glsSlope). The noise model only has to be good enough for efficiency; the
- *    interval's validity rests mostly on the batches, so slow wander the model misses still widens it
- *    (not fully: when strong AR noise hides a random walk, coverage drops to about 92% — bench/RESULTS.md).
+ * 3. Standard error: delete-a-batch (block) jackknife over B contiguous batches of the whitened rows
+ *    (glsSlope). The noise model only has to be good enough for efficiency; the interval's validity rests
+ *    mostly on the batches, so slow wander the model misses still widens it — but only in part: a walk the
+ *    model under-estimates leaves slowly wandering whitened rows that the batches see only in part.
  *    B = 8: fewer batches were no better in the seeded study, more under-covered under a wandering rate.
+ * 4. Student-t reference with df from jackknifeDfWithNoiseModel: the jackknife's own Satterthwaite df,
+ *    lowered by how uncertain the fitted walk is (Whittle information) times how much a walk error moves
+ *    the jackknife (walkSensitivity). When strong AR noise hides a random walk, one 60 s window tells the
+ *    two apart only through its few lowest frequencies; a window whose walk happened to wander little gives
+ *    a small fitted walk and small batch spreads together, and with the jackknife df alone the interval
+ *    covered about 92% (bench/RESULTS.md). White noise keeps the jackknife df (no walk part).
  * Why not the alternatives: the mean of K segment slopes (batch means) has K² times the variance of the
  * full-window slope under white noise; Newey–West on the residuals of the plain level regression fails
  * when the angle wanders (its residuals are then integrated noise). Segment rates (same noise model, per
@@ -254,8 +415,8 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
   const delta = medianInterval(t);
 
   const model = fitAngleNoiseModel(t, y);
-  const whole = glsSlope(t, y, 0, n, model);
-  const df = whole.df;
+  const whole = glsSlope(t, y, 0, n, model, 8, true);
+  const df = jackknifeDfWithNoiseModel(whole.df, whole.walkKappa, logWalkVariance(model, delta, t[n - 1]!, n));
   const rate = estimate(whole.slope, whole.se, df, level);
 
   // segment rates
@@ -327,6 +488,7 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
     warnings,
     noise: { ...model, batches: whole.batches, frame_interval_s: delta },
     df,
+    jackknife_df: whole.df,
     model_se_deg_s: whole.modelSe,
     segment_p_value: segmentP,
   };
