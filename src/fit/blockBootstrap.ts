@@ -74,3 +74,16 @@ export function sampleQuantile(values: Float64Array, q: number): number {
   const hi = Math.min(sorted.length - 1, lo + 1);
   return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
 }
+
+/**
+ * Critical value from B Monte Carlo draws of a statistic (e.g. |t*| of a bootstrap-t): the ⌈(B + 1)·level⌉-th
+ * smallest draw (the largest when that rank exceeds B). With the observed statistic exchangeable with the
+ * draws, it falls at or below this value with probability ⌈(B + 1)·level⌉/(B + 1) ≥ level, e.g. exactly 0.95
+ * for B = 199 (Davison & Hinkley 1997, §2.4 and §5.2; from memory), where interpolating between order
+ * statistics (sampleQuantile) gives about 189.1/200 = 0.9455.
+ */
+export function monteCarloCriticalValue(draws: Float64Array, level: number): number {
+  const sorted = Float64Array.from(draws).sort();
+  const rank = Math.min(sorted.length, Math.ceil((sorted.length + 1) * level - 1e-9));
+  return sorted[Math.max(1, rank) - 1]!;
+}

@@ -150,6 +150,20 @@ function phiAll(x: number, out: Float64Array): void {
 
 const PHI_SCRATCH = new Float64Array(4);
 
+/** The stop time of the last (u0, c, k) asked for: the fit evaluates the curve at every point for the same parameters. */
+const lastStop = { u0: NaN, c: NaN, k: NaN, after_s: NaN };
+
+/** coastDownStopAfter_s, remembered for the last parameters. */
+function stopAfterRemembered(u0: number, c: number, k: number): number {
+  if (u0 !== lastStop.u0 || c !== lastStop.c || k !== lastStop.k) {
+    lastStop.u0 = u0;
+    lastStop.c = c;
+    lastStop.k = k;
+    lastStop.after_s = coastDownStopAfter_s(u0, c, k);
+  }
+  return lastStop.after_s;
+}
+
 /** Internal parameter vector p = [θs, ω0, c, k], time relative to the window start. */
 const coastDownCurve: CurveModel = {
   k: 4,
@@ -161,7 +175,7 @@ const coastDownCurve: CurveModel = {
     const u0 = Math.abs(w0);
     // After the stop the angle is frozen at θ(t_stop); since dθ/dt = 0 there, its gradient is the
     // fixed-time gradient at t_stop (envelope theorem).
-    const tp = Math.min(t, coastDownStopAfter_s(u0, c, k));
+    const tp = Math.min(t, stopAfterRemembered(u0, c, k));
     phiAll(k * tp, PHI_SCRATCH);
     const f1 = PHI_SCRATCH[0]!;
     const f2 = PHI_SCRATCH[2]!;
@@ -174,28 +188,38 @@ const coastDownCurve: CurveModel = {
   },
 };
 
-/** Start values: grid over k and an apparent stop time T; θs, ω0, s·c by linear least squares on t ≤ T. */
+/**
+ * Start values: grid over k and an apparent stop time T; θs, ω0, s·c by linear least squares on t ≤ T.
+ * Per k the basis t·φ1(kt), −t²·φ2(kt) is computed once; the normal equations grow point by point and are
+ * solved at each T, and each candidate's RSS reuses the basis (the curve is linear in θs, ω0, s·c up to its stop).
+ */
 function coastDownStarts(t: Float64Array, y: Float64Array, count: number): Float64Array[] {
   const n = t.length;
   const span = t[n - 1]!;
   const candidates: { rss: number; p: Float64Array }[] = [];
   const grad = new Float64Array(4);
   const row = Float64Array.of(1, 0, 0);
+  const basis1 = new Float64Array(n);
+  const basis2 = new Float64Array(n);
   const kValues = [0];
   for (let a = 0; a < 14; a++) kValues.push((0.03 * 10 ** (a / 4.5)) / span);
   for (const k of kValues) {
+    for (let i = 0; i < n; i++) {
+      phiAll(k * t[i]!, PHI_SCRATCH);
+      basis1[i] = t[i]! * PHI_SCRATCH[0]!;
+      basis2[i] = -t[i]! * t[i]! * PHI_SCRATCH[2]!;
+    }
+    // normal equations for basis [1, t·φ1(kt), −t²·φ2(kt)] over the points t ≤ T, grown as T increases
+    const ata = new Float64Array(9);
+    const atb = new Float64Array(3);
+    let m = 0;
     for (let b = 1; b <= 10; b++) {
       const tEnd = (b / 10) * span;
-      // normal equations for basis [1, t·φ1(kt), −t²·φ2(kt)]
-      const ata = new Float64Array(9);
-      const atb = new Float64Array(3);
-      let m = 0;
-      for (let i = 0; i < n && t[i]! <= tEnd; i++, m++) {
-        phiAll(k * t[i]!, PHI_SCRATCH);
-        row[1] = t[i]! * PHI_SCRATCH[0]!;
-        row[2] = -t[i]! * t[i]! * PHI_SCRATCH[2]!;
+      for (; m < n && t[m]! <= tEnd; m++) {
+        row[1] = basis1[m]!;
+        row[2] = basis2[m]!;
         for (let r = 0; r < 3; r++) {
-          atb[r] = atb[r]! + row[r]! * y[i]!;
+          atb[r] = atb[r]! + row[r]! * y[m]!;
           for (let c2 = 0; c2 < 3; c2++) ata[r * 3 + c2] = ata[r * 3 + c2]! + row[r]! * row[c2]!;
         }
       }
@@ -205,8 +229,14 @@ function coastDownStarts(t: Float64Array, y: Float64Array, count: number): Float
       const w0 = sol[1]!;
       const c = sol[2]! * (w0 < 0 ? -1 : 1);
       const p = Float64Array.of(sol[0]!, w0, c, k);
+      // before the stop the curve is sol·basis; after it, frozen at its value at the stop
+      const stop = coastDownStopAfter_s(Math.abs(w0), c, k);
+      const frozen = stop < span ? coastDownCurve.evaluate(p, stop, grad) : NaN;
       let rss = 0;
-      for (let i = 0; i < n; i++) rss += (y[i]! - coastDownCurve.evaluate(p, t[i]!, grad)) ** 2;
+      for (let i = 0; i < n; i++) {
+        const f = t[i]! < stop ? sol[0]! + w0 * basis1[i]! + sol[2]! * basis2[i]! : frozen;
+        rss += (y[i]! - f) ** 2;
+      }
       if (Number.isFinite(rss)) candidates.push({ rss, p });
     }
   }

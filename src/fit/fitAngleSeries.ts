@@ -82,22 +82,24 @@ function selectWindow(input: AngleSeriesInput, options: FitOptions): { t: Float6
   if (from > last || to < first) {
     throw new InputError(`the window ${from}–${to} s lies outside the data (${first}–${last} s); choose --from and --to inside it`);
   }
-  const ts: number[] = [];
-  const ys: number[] = [];
+  const ts = new Float64Array(t_s.length);
+  const ys = new Float64Array(t_s.length);
+  let kept = 0;
   let rows = 0;
   for (let i = 0; i < t_s.length; i++) {
     const t = t_s[i]!;
     if (t < from || t > to) continue;
     rows++;
     if (Number.isFinite(angle_deg[i]!)) {
-      ts.push(t);
-      ys.push(angle_deg[i]!);
+      ts[kept] = t;
+      ys[kept] = angle_deg[i]!;
+      kept++;
     }
   }
-  if (ts.length < MIN_ROWS) {
-    throw new InputError(`the window ${from}–${to} s holds ${ts.length} valid frames but a fit needs at least ${MIN_ROWS}; widen the window or track more frames`);
+  if (kept < MIN_ROWS) {
+    throw new InputError(`the window ${from}–${to} s holds ${kept} valid frames but a fit needs at least ${MIN_ROWS}; widen the window or track more frames`);
   }
-  return { t: Float64Array.from(ts), y: Float64Array.from(ys), lost: rows - ts.length, rows };
+  return { t: ts.slice(0, kept), y: ys.slice(0, kept), lost: rows - kept, rows };
 }
 
 function hasOnlyFiniteNumbers(value: unknown): boolean {

@@ -51,9 +51,18 @@ export function spinUpRate(params: SpinUpParams): (t_s: number) => number {
   };
 }
 
+const NO_SPIN_UP =
+  'The window shows no spin-up: the best spin-up curve reaches its terminal rate before the window starts; use the steady model or a window that includes the start.';
+
+/** True when the spin-up with onset t0 (s, relative to the window start) and time constant τ (s) is over (5τ after onset) before the window starts. */
+function spinUpOverBeforeWindow(onset_s: number, tau_s: number): boolean {
+  return onset_s + 5 * tau_s < 0;
+}
+
 /** Internal parameter vector p = [θ0, t0 (relative to the window start), ω∞, ln τ]. */
 const spinUpCurve: CurveModel = {
   k: 4,
+  outsideWindow: (p) => (spinUpOverBeforeWindow(p[1]!, Math.exp(p[3]!)) ? NO_SPIN_UP : null),
   evaluate: (p, t, grad) => {
     const theta0 = p[0]!;
     const d = t - p[1]!;
@@ -138,9 +147,7 @@ export function fitSpinUp(t_s: Float64Array, angle_deg: Float64Array, options: S
     theta0_deg: est(0),
   };
 
-  if (params.onset_s + 5 * params.tau_s < t_s[0]!) {
-    throw new DynamicsFitError('The window shows no spin-up: the best spin-up curve reaches its terminal rate before the window starts; use the steady model or a window that includes the start.');
-  }
+  if (spinUpOverBeforeWindow(p[1]!, params.tau_s)) throw new DynamicsFitError(NO_SPIN_UP);
   if (![result.onset_s, result.terminal_rate_deg_s, result.tau_s, result.theta0_deg].every((e) => Number.isFinite(e.se))) {
     throw new DynamicsFitError('The spin-up parameters cannot be told apart in this window; use a window that includes the rotor at rest and its approach to a steady rate.');
   }

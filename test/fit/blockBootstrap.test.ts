@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { Matrix, solve } from 'ml-matrix';
 import { sampleCorrelation } from 'simple-statistics';
-import { chooseBlockLength, circularBlockSampler, lag1Autocorrelation, sampleQuantile } from '../../src/fit/blockBootstrap.js';
+import { chooseBlockLength, circularBlockSampler, lag1Autocorrelation, monteCarloCriticalValue, sampleQuantile } from '../../src/fit/blockBootstrap.js';
 import { chooseAutoregressiveOrder, fitAutoregression } from '../../src/fit/autoregressiveErrors.js';
 import { batchMeansEffectiveSize } from '../../src/fit/batchMeansEffectiveSize.js';
 import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
@@ -102,6 +102,16 @@ describe('circular block bootstrap', () => {
     expect(batchMeansEffectiveSize(x) / 20000).toBeLessThan(1.6);
     const walk = arSeries([1], 60000, 18);
     expect(batchMeansEffectiveSize(walk)).toBeLessThan(100);
+  });
+
+  // Reference: Davison & Hinkley (1997), §2.4 and §5.2 (from memory): with B = 199 draws the 95% critical
+  // value is the (B + 1)·0.95 = 190th smallest; with B = 99, the 95th; a rank past B gives the largest draw.
+  it('takes the ⌈(B + 1)·level⌉-th smallest draw as the Monte Carlo critical value', () => {
+    const draws199 = Float64Array.from({ length: 199 }, (_, i) => 199 - i);
+    expect(monteCarloCriticalValue(draws199, 0.95)).toBe(190);
+    const draws99 = Float64Array.from({ length: 99 }, (_, i) => (i * 37) % 99);
+    expect(monteCarloCriticalValue(draws99, 0.95)).toBe(94);
+    expect(monteCarloCriticalValue(Float64Array.of(3, 1, 2), 0.99)).toBe(3);
   });
 
   it('computes type-7 sample quantiles (the default of R and NumPy)', () => {

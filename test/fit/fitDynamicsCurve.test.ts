@@ -1,0 +1,40 @@
+import { describe, expect, it } from 'vitest';
+import { curveProblem, type CurveModel } from '../../src/fit/fitDynamicsCurve.js';
+
+/** Invented test model: y = a·(1 − e^(−b·t)), with its closed-form gradient (calculus, common practice, no source). */
+const saturating: CurveModel = {
+  k: 2,
+  evaluate: (p, t, grad) => {
+    const e = Math.exp(-p[1]! * t);
+    grad[0] = 1 - e;
+    grad[1] = p[0]! * t * e;
+    return p[0]! * (1 - e);
+  },
+};
+
+describe('curveProblem', () => {
+  const t = Float64Array.from({ length: 50 }, (_, i) => i / 10);
+  const y = t.map((v) => 3 * (1 - Math.exp(-0.7 * v)) + 0.01 * Math.sin(7 * v));
+  const problem = curveProblem(saturating, t, y);
+
+  it('gives residuals y − f(t)', () => {
+    const r = new Float64Array(t.length);
+    problem.residuals(Float64Array.of(2, 0.5), r);
+    for (let i = 0; i < t.length; i++) expect(r[i]).toBeCloseTo(y[i]! - 2 * (1 - Math.exp(-0.5 * t[i]!)), 14);
+  });
+
+  // The residual pass keeps the Jacobian for reuse; a request at other parameters must not get the kept one.
+  it('gives the closed-form Jacobian at the parameters asked for, whatever the last residual pass used', () => {
+    const r = new Float64Array(t.length);
+    const jac = new Float64Array(2 * t.length);
+    for (const [pr, pj] of [[Float64Array.of(2, 0.5), Float64Array.of(2, 0.5)], [Float64Array.of(2, 0.5), Float64Array.of(4, 1.2)], [Float64Array.of(4, 1.2), Float64Array.of(4, 1.2)]] as const) {
+      problem.residuals(pr, r);
+      problem.jacobian(pj, jac);
+      for (let i = 0; i < t.length; i++) {
+        const e = Math.exp(-pj[1]! * t[i]!);
+        expect(jac[i]).toBeCloseTo(1 - e, 14);
+        expect(jac[t.length + i]).toBeCloseTo(pj[0]! * t[i]! * e, 14);
+      }
+    }
+  });
+});
