@@ -78,10 +78,13 @@ function selectWindow(input: AngleSeriesInput, options: FitOptions): { t: Float6
   const from = options.from_s ?? first;
   const to = options.to_s ?? last;
   if (!Number.isFinite(from) || !Number.isFinite(to)) throw new InputError('the window bounds --from and --to must be numbers of seconds');
-  if (!(from < to)) throw new InputError(`the window ${from}–${to} s is empty; give --from smaller than --to`);
-  if (from > last || to < first) {
-    throw new InputError(`the window ${from}–${to} s lies outside the data (${first}–${last} s); choose --from and --to inside it`);
+  if (options.from_s !== undefined && options.from_s >= last) {
+    throw new InputError(`--from ${options.from_s} s is at or after the last row (${last} s); choose a start inside the data (${first}–${last} s)`);
   }
+  if (options.to_s !== undefined && options.to_s <= first) {
+    throw new InputError(`--to ${options.to_s} s is at or before the first row (${first} s); choose an end inside the data (${first}–${last} s)`);
+  }
+  if (!(from < to)) throw new InputError(`the window ${from}–${to} s is empty; give --from smaller than --to`);
   const ts = new Float64Array(t_s.length);
   const ys = new Float64Array(t_s.length);
   let kept = 0;

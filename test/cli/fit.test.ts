@@ -54,7 +54,8 @@ describe('revtrace fit', () => {
   });
 
   const bad: [string, string[], RegExp][] = [
-    ['a window outside the data', ['--from', '100', '--to', '200'], /lies outside the data/],
+    ['a window after the data', ['--from', '100', '--to', '200'], /^revtrace: --from 100 s is at or after the last row/],
+    ['a start after the data without an end', ['--from', '100'], /^revtrace: --from 100 s is at or after the last row/],
     ['a level of 95', ['--level', '95'], /--level must lie between 0 and 1/],
     ['a non-numeric --from', ['--from', 'abc'], /--from must be a number/],
     ['an unknown model', ['--model', 'linear'], /--model must be steady, spinup, spindown or auto/],

@@ -63,7 +63,8 @@ describe('fitAngleSeries', () => {
   });
 
   const bad: [string, () => unknown, RegExp][] = [
-    ['a window outside the data', () => fitAngleSeries(reverseRun(), { from_s: 100, to_s: 120 }), /lies outside the data/],
+    ['a start after the data', () => fitAngleSeries(reverseRun(), { from_s: 100, to_s: 120 }), /^--from 100 s is at or after the last row \(\S+ s\); choose a start inside the data/],
+    ['an end before the data', () => fitAngleSeries(reverseRun(), { to_s: -5 }), /^--to -5 s is at or before the first row \(\S+ s\); choose an end inside the data/],
     ['an empty window', () => fitAngleSeries(reverseRun(), { from_s: 30, to_s: 20 }), /is empty/],
     ['too few frames in the window', () => fitAngleSeries(reverseRun(), { from_s: 20, to_s: 20.1 }), /needs at least 10/],
     ['a level outside (0, 1)', () => fitAngleSeries(reverseRun(), { level: 95 }), /between 0 and 1/],
