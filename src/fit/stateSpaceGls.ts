@@ -18,56 +18,12 @@ export interface WhitenedRegression {
  * @param lo,hi row range [lo, hi)
  */
 export function kalmanWhiten(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel): WhitenedRegression {
-  const m = hi - lo;
-  const out: WhitenedRegression = { one: new Float64Array(m), t: new Float64Array(m), y: new Float64Array(m) };
-  const s2 = model.ar_var_deg2;
-  const q = model.walk_deg2_per_s;
-  const total = model.white_var_deg2 + s2 + q * Math.max(0, t[hi - 1]! - t[lo]!);
-  // a tiny white floor keeps every innovation variance positive (e.g. a pure random walk's first frame)
-  const r = Math.max(model.white_var_deg2, 1e-10 * total, Number.MIN_VALUE);
-  let p11 = s2;
-  let p12 = 0;
-  let p22 = 0;
-  // state means (AR part a, walk part w) for each of the three series: y, one, t
-  let ay = 0, wy = 0, a1 = 0, w1 = 0, at = 0, wt = 0;
-  for (let k = lo; k < hi; k++) {
-    if (k > lo) {
-      const dt = t[k]! - t[k - 1]!;
-      const phi = s2 > 0 ? Math.exp(-dt / model.ar_time_s) : 0;
-      p11 = phi * phi * p11 + s2 * (1 - phi * phi);
-      p12 = phi * p12;
-      p22 = p22 + q * dt;
-      ay *= phi;
-      a1 *= phi;
-      at *= phi;
-    }
-    const h1 = p11 + p12;
-    const h2 = p12 + p22;
-    const f = h1 + h2 + r;
-    const sd = Math.sqrt(f);
-    const k1 = h1 / f;
-    const k2 = h2 / f;
-    const ey = y[k]! - ay - wy;
-    const e1 = 1 - a1 - w1;
-    const et = t[k]! - at - wt;
-    const i = k - lo;
-    out.y[i] = ey / sd;
-    out.one[i] = e1 / sd;
-    out.t[i] = et / sd;
-    ay += k1 * ey;
-    wy += k2 * ey;
-    a1 += k1 * e1;
-    w1 += k2 * e1;
-    at += k1 * et;
-    wt += k2 * et;
-    const n11 = p11 - k1 * h1;
-    const n12 = p12 - k1 * h2;
-    const n22 = p22 - k2 * h2;
-    p11 = n11;
-    p12 = n12;
-    p22 = n22;
-  }
-  return out;
+  const gains = kalmanGains(t, lo, hi, model);
+  return {
+    one: whitenWithGains(gains, () => 1),
+    t: whitenWithGains(gains, (i) => t[lo + i]!),
+    y: whitenWithGains(gains, (i) => y[lo + i]!),
+  };
 }
 
 /** The per-row Kalman quantities of kalmanWhiten for one noise model and time grid (relative row index). */
@@ -81,13 +37,14 @@ export interface KalmanGains {
   sd: Float64Array;
 }
 
-/** The gains kalmanWhiten uses on rows [lo, hi) (same recursion), so further series can be whitened cheaply by whitenWithGains. */
+/** The Kalman gains and innovation SDs of the noise state on rows [lo, hi): the covariance recursion of kalmanWhiten, shared by every series it whitens. */
 export function kalmanGains(t: Float64Array, lo: number, hi: number, model: AngleNoiseModel): KalmanGains {
   const m = hi - lo;
   const out: KalmanGains = { phi: new Float64Array(m), gainAr: new Float64Array(m), gainWalk: new Float64Array(m), sd: new Float64Array(m) };
   const s2 = model.ar_var_deg2;
   const q = model.walk_deg2_per_s;
   const total = model.white_var_deg2 + s2 + q * Math.max(0, t[hi - 1]! - t[lo]!);
+  // a tiny white floor keeps every innovation variance positive (e.g. a pure random walk's first frame)
   const r = Math.max(model.white_var_deg2, 1e-10 * total, Number.MIN_VALUE);
   let p11 = s2;
   let p12 = 0;

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { fitSteadyRate, jackknifeDfWithNoiseModel, logWalkVariance } from '../../src/fit/steadyRate.js';
 import { noiseInformation } from '../../src/fit/angleNoiseModel.js';
+import { Matrix, inverse } from 'ml-matrix';
 import { kalmanGains, kalmanWhiten, whitenWithGains } from '../../src/fit/stateSpaceGls.js';
 import { simulateSteady, SCENARIOS } from '../../bench/fitScenarios.mjs';
 
@@ -39,15 +40,45 @@ describe('noiseInformation (Whittle information of the noise model)', () => {
   });
 });
 
-describe('whitenWithGains', () => {
-  it('whitens a step exactly as kalmanWhiten does', () => {
-    const { t_s } = simulateSteady({ seed: 5, n: 400, fps: 60, rate_deg_s: 0, lost_share: 0.05 });
-    const t = Float64Array.from(t_s, (v) => v - t_s[0]!);
-    const model = { white_var_deg2: 0.01, ar_var_deg2: 0.25, ar_time_s: 0.3, walk_deg2_per_s: 0.09 };
-    const step = Float64Array.from(t, (_, i) => (i >= 137 ? 1 : 0));
-    const reference = kalmanWhiten(t, step, 0, t.length, model).y;
-    const fast = whitenWithGains(kalmanGains(t, 0, t.length, model), () => 1, 137);
-    for (let i = 0; i < t.length; i++) expect(fast[i]).toBeCloseTo(reference[i]!, 12);
+describe('kalmanWhiten and whitenWithGains', () => {
+  // Reference: generalised least squares written out with the explicit covariance matrix and inverted by
+  // ml-matrix (a general-purpose matrix library): a whitening W is right exactly when WᵀW = Σ⁻¹, i.e. when
+  // the whitened cross-products equal XᵀΣ⁻¹X and XᵀΣ⁻¹y. Σ_ij = white·δ_ij + ar·exp(−|t_i − t_j|/τ_c)
+  // + walk·min(t_i − t_0, t_j − t_0) (white + stationary AR(1) + a random walk from 0 at the first row).
+  const model = { white_var_deg2: 0.01, ar_var_deg2: 0.25, ar_time_s: 0.3, walk_deg2_per_s: 0.09 };
+  const { t_s, angle_deg } = simulateSteady({ seed: 5, n: 80, fps: 30, rate_deg_s: 0.4, lost_share: 0.1, white_deg: 0.1 });
+  const t = Float64Array.from(t_s, (v) => v - t_s[0]!);
+  const y = Float64Array.from(angle_deg);
+  const n = t.length;
+  const sigma = new Matrix(n, n);
+  for (let i = 0; i < n; i++) {
+    for (let j = 0; j < n; j++) {
+      sigma.set(i, j, (i === j ? model.white_var_deg2 : 0) + model.ar_var_deg2 * Math.exp(-Math.abs(t[i]! - t[j]!) / model.ar_time_s) + model.walk_deg2_per_s * Math.min(t[i]!, t[j]!));
+    }
+  }
+  const inv = inverse(sigma);
+  const X = new Matrix(n, 2);
+  for (let i = 0; i < n; i++) { X.set(i, 0, 1); X.set(i, 1, t[i]!); }
+  const xtx = X.transpose().mmul(inv).mmul(X);
+  const xty = X.transpose().mmul(inv).mmul(Matrix.columnVector(Array.from(y)));
+
+  it('turns GLS into OLS: whitened cross-products equal XᵀΣ⁻¹X and XᵀΣ⁻¹y', () => {
+    const w = kalmanWhiten(t, y, 0, n, model);
+    const dot = (a: Float64Array, b: Float64Array) => a.reduce((s, v, i) => s + v * b[i]!, 0);
+    const rel = (a: number, b: number) => Math.abs(a - b) / Math.abs(b);
+    expect(rel(dot(w.one, w.one), xtx.get(0, 0))).toBeLessThan(1e-8);
+    expect(rel(dot(w.one, w.t), xtx.get(0, 1))).toBeLessThan(1e-8);
+    expect(rel(dot(w.t, w.t), xtx.get(1, 1))).toBeLessThan(1e-8);
+    expect(rel(dot(w.one, w.y), xty.get(0, 0))).toBeLessThan(1e-8);
+    expect(rel(dot(w.t, w.y), xty.get(1, 0))).toBeLessThan(1e-8);
+  });
+
+  it('whitens a series that starts at a later row as the same series padded with zeros', () => {
+    const from = 37;
+    const step = Float64Array.from(t, (_, i) => (i >= from ? 1 : 0));
+    const padded = kalmanWhiten(t, step, 0, n, model).y;
+    const late = whitenWithGains(kalmanGains(t, 0, n, model), () => 1, from);
+    for (let i = 0; i < n; i++) expect(late[i]).toBeCloseTo(padded[i]!, 12);
   });
 });
 
