@@ -11,6 +11,7 @@ interface TrackCliOptions {
   roi?: string;
   center?: string;
   marker?: string;
+  markers?: string;
   anchor?: string;
   from?: string;
   to?: string;
@@ -26,6 +27,14 @@ function numberOption(name: string, value: string | undefined): number | undefin
   return v;
 }
 
+/** `--markers n`: a whole number of marker spots, 1 to 8. */
+function markerCountOption(value: string | undefined): number | undefined {
+  if (value === undefined) return undefined;
+  const v = Number(value.trim());
+  if (value.trim() === '' || !Number.isInteger(v) || v < 1 || v > 8) throw new InputError(`--markers "${value}" must be a whole number of marker spots from 1 to 8`);
+  return v;
+}
+
 /** `revtrace track <video> --out <dir>`: the hub's unwrapped angle per frame → angle.csv, track.json, preview.png. */
 export function registerTrack(program: Command): void {
   program
@@ -36,6 +45,7 @@ export function registerTrack(program: Command): void {
     .option('--roi <x,y,w,h>', 'region the marker moves in, full-frame pixels (default: whole frame)')
     .option('--center <x,y>', 'rotation centre in pixels (default: fitted from the marker path)')
     .option('--marker <kind>', 'bright | dark | color:<hex> | texture', 'bright')
+    .option('--markers <n>', 'number of marker spots on the hub, followed and combined (bright, dark, colour)', '1')
     .option('--tolerance <deltaE>', 'colour marker: largest CIELAB difference still counted as the marker', '40')
     .option('--anchor <x,y,w,h>', 'a still part of the scene, to take camera shake off the marker')
     .option('--from <s>', 'start time, seconds')
@@ -60,6 +70,7 @@ export function registerTrack(program: Command): void {
           roi: o.roi !== undefined ? toRegion('--roi', o.roi) : undefined,
           centre,
           marker: o.marker,
+          markers: markerCountOption(o.markers),
           colour_tolerance: numberOption('--tolerance', o.tolerance),
           anchor: o.anchor !== undefined ? toRegion('--anchor', o.anchor) : undefined,
           from_s: numberOption('--from', o.from),

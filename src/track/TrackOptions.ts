@@ -16,6 +16,8 @@ export interface TrackOptions {
   centre?: { x?: number; y?: number; x_px?: number; y_px?: number };
   /** 'bright' (default) | 'dark' | 'color:#rrggbb' | 'texture'. */
   marker?: string;
+  /** How many marker spots the hub carries (bright, dark and colour markers; default 1). With more than one, all are followed and combined. */
+  markers?: number;
   /** Colour marker: largest CIELAB difference (lightness half-weighted) still counted as the marker (default 40). */
   colour_tolerance?: number;
   /** A still part of the scene whose motion is taken off the marker (camera shake). */

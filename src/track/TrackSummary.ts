@@ -30,6 +30,19 @@ export interface TrackSummary {
   splits: { after_frame: number; t_s: number; gap_s: number }[];
   /** How well the marker path fits the ellipse: RMS distance of kept points, px, and points rejected as off the path (absent when no fit was made). */
   path_fit?: { rms_px: number; rejected: number };
+  /**
+   * Only with several markers (--markers n > 1): frames in which each was found, how many frames had all of
+   * them, the first such frame, each marker's angle relative to the first marker in the rotor plane (deg,
+   * averaged over the frames with all found) and the semi-major axis of each marker's path (px).
+   */
+  markers?: {
+    count: number;
+    found_frames: number[];
+    all_found_frames: number;
+    first_all_found_frame: number;
+    phase_offset_deg: number[];
+    semi_major_px: number[];
+  };
   /** Marker path samples for the report (thinned), full-frame px. */
   path_sample: PointPx[];
   warnings: string[];

@@ -14,8 +14,12 @@ import { fitCircle } from './fitCircle.js';
 import { fitEllipseRobust, type RobustEllipseFit } from './fitEllipseRobust.js';
 import { rotorPlaneAngle, wrapDeg, type ViewGeometry } from './rotorPlaneAngle.js';
 import { createSpotFollower } from './spotFollower.js';
+import { createMarkerFollowers } from './followMarkers.js';
+import { MarkerPathStore } from './MarkerPathStore.js';
+import { multiMarkerGeometry } from './multiMarkerGeometry.js';
 import { checkInside, parseMarker, toRegion, type MarkerMode, type RegionPx, type TrackOptions } from './TrackOptions.js';
 import { TrackingError } from './TrackingError.js';
+import { givenQuantity, viewFromPathFit, viewWithoutPathFit } from './viewFromPathFit.js';
 import { unwrapAngles } from './unwrapAngles.js';
 import { drawPreview, type PreviewImage } from './drawPreview.js';
 
@@ -58,6 +62,9 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   if (mode.kind === 'texture' && !centre) {
     throw new InputError('--marker texture needs --center x,y (the rotation centre in pixels)');
   }
+  const markerCount = options.markers ?? 1;
+  if (!(Number.isInteger(markerCount) && markerCount >= 1 && markerCount <= 8)) throw new InputError(`--markers ${markerCount} must be a whole number of marker spots from 1 to 8`);
+  if (markerCount > 1 && mode.kind === 'texture') throw new InputError(`--markers ${markerCount} needs marker spots (bright, dark or color:#rrggbb); texture mode follows the hub's surface instead`);
   const tolerance = options.colour_tolerance ?? 40;
   const crop = anchor ? union(roi, anchor) : roi;
   const warnings: string[] = [];
@@ -66,6 +73,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   const store = new FrameStore();
   const region = { x0: roi.x - crop.x, y0: roi.y - crop.y, x1: roi.x - crop.x + roi.w, y1: roi.y - crop.y + roi.h };
   const follower = mode.kind === 'texture' ? null : createSpotFollower({ region });
+  const multi = markerCount > 1 ? { followers: createMarkerFollowers({ region, count: markerCount }), paths: new MarkerPathStore(markerCount) } : null;
   const colourTable = mode.kind === 'color' ? colourSimilarityTable(mode.rgb, tolerance) : null;
   const anchorTracker: AnchorTracker | null = anchor ? createAnchorTracker({ anchor }) : null;
   let texture: TextureTracker | null = null;
@@ -119,6 +127,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     }
     if (anchorTracker && !Number.isFinite(motion.dx_px)) {
       store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:camera');
+      multi?.paths.pushLost('lost:camera');
     } else if (texture && centre) {
       let offset: { dx_px: number; dy_px: number } | undefined;
       if (anchorTracker) {
@@ -149,6 +158,16 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
           }
         }
       }
+      if (multi) {
+        const readings = multi.followers.update(signal, W, frame.t_s);
+        const measured = readings.map((r) => ({ x_px: r.x_px + crop.x, y_px: r.y_px + crop.y }));
+        const steadied = anchorTracker ? measured.map((p) => (Number.isFinite(p.x_px) ? removeCameraMotion(p, motion, anchorTracker.pivot) : p)) : measured;
+        multi.paths.push(readings, measured, steadied);
+        const f = multi.paths.frameOf(multi.paths.n - 1);
+        store.push(frame.index, frame.t_s, measured[0].x_px, measured[0].y_px, steadied[0].x_px, steadied[0].y_px, NaN, f.quality, f.flag);
+        if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
+        continue;
+      }
       const r = follower.update(signal, W, frame.t_s);
       const x = r.x_px + crop.x;
       const y = r.y_px + crop.y;
@@ -178,10 +197,19 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   let fit: RobustEllipseFit | null = null;
   const wrapped = new Float64Array(n).fill(NaN);
   let maxCorrection = 0;
+  let multiSummary: Pick<TrackSummary, 'markers' | 'path_fit'> | null = null;
   if (mode.kind === 'texture') {
     const c = texture!.centre_px;
-    centreSummary = { x_px: given(c.x_px), y_px: given(c.y_px), source: 'given' };
+    centreSummary = { x_px: givenQuantity(c.x_px), y_px: givenQuantity(c.y_px), source: 'given' };
     for (let i = 0; i < n; i++) wrapped[i] = Number.isFinite(store.a[i]) ? wrapDeg(store.a[i]) : NaN;
+  } else if (multi) {
+    const g = multiMarkerGeometry({
+      store: multi.paths, t_s, frame_number: store.frame, frame: { flag, quality, x_px: store.x, y_px: store.y }, centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg,
+      roi_text: `${roi.x},${roi.y},${roi.w},${roi.h}`, marker_text: markerWord(mode), warnings,
+    });
+    ({ view, view_summary: viewSummary, centre_summary: centreSummary } = g);
+    wrapped.set(g.wrapped_deg);
+    multiSummary = { markers: g.markers, path_fit: g.path_fit ?? undefined };
   } else {
     const good: number[] = [];
     for (let i = 0; i < n; i++) if (flag[i] === '') good.push(i);
@@ -225,51 +253,14 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
         }
       }
       const e = fit.ellipse;
-      const ratio = e.semi_minor_px / e.semi_major_px;
-      const significant = 1 - ratio > Math.max(0.002, 2 * fit.se.axis_ratio);
-      let useRatio = significant ? ratio : 1;
-      let axis = e.major_axis_deg;
-      if (options.tilt_deg !== undefined) {
-        useRatio = Math.cos((options.tilt_deg * Math.PI) / 180);
-        if (!significant) axis = options.tilt_axis_deg ?? 0;
-      }
-      view = { cx_px: e.cx_px, cy_px: e.cy_px, axis_ratio: useRatio, major_axis_deg: axis };
-      const tilt = (Math.acos(Math.min(1, ratio)) * 180) / Math.PI;
-      // d(tilt)/d(ratio) = −1/sin(tilt), deg per unit ratio
-      const tiltSe = ratio < 1 ? (fit.se.axis_ratio / Math.sqrt(1 - ratio * ratio)) * (180 / Math.PI) : NaN;
-      const ciTilt: [number, number] = [acosDeg(fit.ci95.axis_ratio[1]), acosDeg(fit.ci95.axis_ratio[0])];
-      viewSummary = {
-        semi_major_px: e.semi_major_px,
-        semi_minor_px: e.semi_minor_px,
-        major_axis_deg: axis,
-        axis_ratio: ratio,
-        tilt_deg: options.tilt_deg !== undefined ? given(options.tilt_deg) : { value: tilt, se: tiltSe, ci: ciTilt, level: 0.95 },
-        max_correction_deg: 0,
-        corrected: useRatio !== 1,
-      };
-      centreSummary = centre
-        ? { x_px: given(cx), y_px: given(cy), source: 'given' }
-        : {
-            x_px: { value: e.cx_px, se: fit.se.cx_px, ci: fit.ci95.cx_px, level: 0.95 },
-            y_px: { value: e.cy_px, se: fit.se.cy_px, ci: fit.ci95.cy_px, level: 0.95 },
-            source: 'ellipse-fit',
-          };
+      ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewFromPathFit(
+        { ellipse: e, axis_ratio: e.semi_minor_px / e.semi_major_px, se: fit.se, ci95: fit.ci95 },
+        { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg },
+      ));
     } else {
-      const ratio = options.tilt_deg !== undefined ? Math.cos((options.tilt_deg * Math.PI) / 180) : 1;
-      view = { cx_px: cx, cy_px: cy, axis_ratio: ratio, major_axis_deg: options.tilt_axis_deg ?? 0 };
-      if (options.tilt_deg === undefined) {
-        warnings.push(`The marker swept only ${arcAbout.toFixed(0)}° about --center, too little to measure the view; angles assume a square-on camera (give --tilt deg if it is not).`);
-      }
-      viewSummary = {
-        semi_major_px: NaN,
-        semi_minor_px: NaN,
-        major_axis_deg: view.major_axis_deg,
-        axis_ratio: ratio,
-        tilt_deg: given(options.tilt_deg ?? 0),
-        max_correction_deg: 0,
-        corrected: ratio !== 1,
-      };
-      centreSummary = { x_px: given(cx), y_px: given(cy), source: 'given' };
+      ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewWithoutPathFit(
+        cx, cy, { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg }, arcAbout, 'The marker', warnings,
+      ));
     }
     const plain: ViewGeometry = { cx_px: view.cx_px, cy_px: view.cy_px, axis_ratio: 1, major_axis_deg: 0 };
     for (let i = 0; i < n; i++) {
@@ -360,6 +351,12 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     warnings,
   };
   if (fit) summary.path_fit = { rms_px: fit.rms_px, rejected: countZeros(fit.inlier) };
+  if (multi && multiSummary) {
+    summary.settings.markers = markerCount;
+    summary.settings.angle_zero = 'first marker angle about the centre at the first good frame, from image +x (markers numbered counterclockwise from +x at the first frame all are seen)';
+    if (multiSummary.path_fit) summary.path_fit = multiSummary.path_fit;
+    summary.markers = multiSummary.markers;
+  }
 
   const preview = await drawPreview(path, {
     header,
@@ -388,14 +385,6 @@ function union(a: RegionPx, b: RegionPx): RegionPx {
   const x = Math.min(a.x, b.x);
   const y = Math.min(a.y, b.y);
   return { x, y, w: Math.max(a.x + a.w, b.x + b.w) - x, h: Math.max(a.y + a.h, b.y + b.h) - y };
-}
-
-function given(value: number) {
-  return { value, se: 0, ci: [value, value] as [number, number], level: 0.95 };
-}
-
-function acosDeg(r: number): number {
-  return (Math.acos(Math.max(-1, Math.min(1, r))) * 180) / Math.PI;
 }
 
 function countZeros(a: Uint8Array): number {

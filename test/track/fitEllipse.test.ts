@@ -1,31 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
-import { uniformFloat64 } from 'pure-rand/distribution/uniformFloat64';
 import { conicToEllipse, fitCentredEllipse, fitEllipse } from '../../src/track/fitEllipse.js';
 import { fitEllipseRobust, sampsonDistance } from '../../src/track/fitEllipseRobust.js';
-import { openCvReference } from './openCvReference.js';
-
-/** Points on an ellipse from its parametric form x = cx + a cos t cos φ − b sin t sin φ (y up, then flipped to image y down). */
-function ellipsePoints(cx: number, cy: number, a: number, b: number, phiDeg: number, t0: number, t1: number, n: number, noise = 0, seed = 1) {
-  const rng = xoroshiro128plus(seed);
-  const gauss = () => Math.sqrt(-2 * Math.log(1 - uniformFloat64(rng))) * Math.cos(2 * Math.PI * uniformFloat64(rng));
-  const phi = (phiDeg * Math.PI) / 180;
-  const x = new Float64Array(n);
-  const y = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const t = t0 + ((t1 - t0) * i) / n;
-    const u = a * Math.cos(t) * Math.cos(phi) - b * Math.sin(t) * Math.sin(phi);
-    const v = a * Math.cos(t) * Math.sin(phi) + b * Math.sin(t) * Math.cos(phi);
-    x[i] = cx + u + noise * gauss();
-    y[i] = cy - v + noise * gauss();
-  }
-  return { x, y };
-}
+import { expectAgreesWithOpenCvEllipse } from './openCvReference.js';
+import { ellipsePoints } from './ellipsePoints.js';
 
 describe('fitEllipse (Halíř–Flusser direct least squares)', () => {
   // Truth: the parametric form of an ellipse (analytic geometry)
   it('recovers an exact ellipse from points on it', () => {
-    const { x, y } = ellipsePoints(640.5, 360.25, 150, 122.9, 25, 0, 2 * Math.PI, 60);
+    const { x_px: x, y_px: y } = ellipsePoints(640.5, 360.25, 150, 122.9, 25, 0, 2 * Math.PI, 60);
     const e = fitEllipse(x, y);
     expect(e.cx_px).toBeCloseTo(640.5, 6);
     expect(e.cy_px).toBeCloseTo(360.25, 6);
@@ -37,30 +19,12 @@ describe('fitEllipse (Halíř–Flusser direct least squares)', () => {
   // Reference: OpenCV 4.5 cv.fitEllipse (npm @techstark/opencv-js), a different least-squares ellipse fit;
   // OpenCV reports full axes and the width axis angle clockwise as displayed.
   it('agrees with OpenCV fitEllipse on noisy points', async () => {
-    const { cv } = await openCvReference();
-    const { x, y } = ellipsePoints(300, 200, 120, 80, -40, 0.3, 0.3 + 2 * Math.PI, 400, 0.3, 7);
-    const flat: number[] = [];
-    for (let i = 0; i < x.length; i++) flat.push(x[i], y[i]);
-    const mat = cv.matFromArray(x.length, 1, cv.CV_32FC2, flat);
-    let ref;
-    try {
-      ref = cv.fitEllipse(mat);
-    } finally {
-      mat.delete();
-    }
-    const e = fitEllipse(x, y);
-    expect(e.cx_px).toBeCloseTo(ref.center.x, 1);
-    expect(e.cy_px).toBeCloseTo(ref.center.y, 1);
-    expect(2 * e.semi_major_px).toBeCloseTo(Math.max(ref.size.width, ref.size.height), 0);
-    expect(2 * e.semi_minor_px).toBeCloseTo(Math.min(ref.size.width, ref.size.height), 0);
-    // OpenCV angle of the major axis, clockwise as displayed → counterclockwise, folded to (−90, 90]
-    let refMajor = ref.size.width >= ref.size.height ? -ref.angle : -(ref.angle + 90);
-    refMajor -= 180 * Math.round(refMajor / 180);
-    expect(Math.abs(e.major_axis_deg - refMajor)).toBeLessThan(0.5);
+    const { x_px: x, y_px: y } = ellipsePoints(300, 200, 120, 80, -40, 0.3, 0.3 + 2 * Math.PI, 400, 0.3, 7);
+    await expectAgreesWithOpenCvEllipse(fitEllipse(x, y), x, y);
   });
 
   it('fits a centred ellipse from a short arc when the centre is known', () => {
-    const { x, y } = ellipsePoints(500, 300, 150, 100, 0, 0.2, 1.4, 50);
+    const { x_px: x, y_px: y } = ellipsePoints(500, 300, 150, 100, 0, 0.2, 1.4, 50);
     const e = fitCentredEllipse(x, y, 500, 300);
     expect(e.semi_major_px).toBeCloseTo(150, 6);
     expect(e.semi_minor_px).toBeCloseTo(100, 6);
@@ -84,7 +48,7 @@ describe('fitEllipse (Halíř–Flusser direct least squares)', () => {
 
 describe('fitEllipseRobust', () => {
   it('ignores gross outliers and reports a standard error that covers the truth', () => {
-    const { x, y } = ellipsePoints(640, 360, 150, 123, 10, 0, 4 * Math.PI, 800, 0.1, 3);
+    const { x_px: x, y_px: y } = ellipsePoints(640, 360, 150, 123, 10, 0, 4 * Math.PI, 800, 0.1, 3);
     for (let i = 0; i < 800; i += 20) x[i] += 15; // 5 % of points thrown 15 px off
     const fit = fitEllipseRobust(x, y);
     let rejected = 0;

@@ -5,6 +5,7 @@ import { join } from 'node:path';
 import { renderClip } from '../../src/synth/renderClip.js';
 import type { SynthSpecInput } from '../../src/synth/SynthSpec.js';
 import { trackVideo } from '../../src/track/trackVideo.js';
+import { offsetRemovedErrors, rms } from './angleErrors.js';
 
 // Truth: the synthetic renderer (src/synth) draws the rotor from a closed-form angle profile and writes the
 // true angle of every frame; the tracker never sees it. Angles are compared after removing the mean offset
@@ -17,14 +18,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await rm(dir, { recursive: true, force: true });
 });
-
-function offsetRemovedErrors(frames: Int32Array, got: Float64Array, truth: Float64Array): number[] {
-  const d: number[] = [];
-  for (let i = 0; i < frames.length; i++) if (Number.isFinite(got[i])) d.push(got[i] - truth[frames[i]]);
-  const mean = d.reduce((s, v) => s + v, 0) / d.length;
-  return d.map((v) => v - mean);
-}
-const rms = (a: number[]) => Math.sqrt(a.reduce((s, v) => s + v * v, 0) / a.length);
 
 const hd: SynthSpecInput = {
   seed: 5,

@@ -1,0 +1,135 @@
+import { findSpots, type Window } from './findSpots.js';
+import { createSpotFollower, type SpotFollower, type SpotReading } from './spotFollower.js';
+
+/** Frames a lost marker's extrapolated place is still blanked for the other followers. */
+const MAX_BLANK_AGE = 5;
+
+export interface FollowMarkersOptions {
+  /** Where the markers may be, in signal-image pixels. */
+  region: Window;
+  /** Number of markers on the hub (2 or more). */
+  count: number;
+}
+
+/**
+ * Follows several marker spots on one hub, each with its own spot follower (own prediction and gate).
+ * Until all `count` markers are seen in one frame, nothing is followed (every marker `lost:no-blob`). At that
+ * frame the `count` biggest spots (findSpots; spots crossing the region's edge last) are numbered counterclockwise as displayed from the image's +x
+ * direction about their mean position, and each follower is started on its own spot (it sees nothing else in that frame). Every frame, each
+ * follower sees the signal with the other markers blanked out (a disc around their latest or extrapolated
+ * position, for up to MAX_BLANK_AGE lost frames, filled with the region's median), so it can neither start on, reacquire nor drift onto another
+ * marker. A reading that still lands on a spot another marker took this frame is refused (`lost:gate`).
+ * Positions are in signal-image pixels; a lost marker has NaN position and a reason in flag.
+ */
+export function createMarkerFollowers(options: FollowMarkersOptions) {
+  const { region, count } = options;
+  const followers: SpotFollower[] = [];
+  /** Last found position, the step per frame before it, frames since it, spot radius: per marker, px. */
+  const last: { x: number; y: number; dx: number; dy: number; age: number; r: number }[] = [];
+  let scratch: Uint8Array | null = null;
+
+  /** Median of the signal over the region, signal units. */
+  const regionMedian = (signal: Uint8Array, width: number): number => {
+    const hist = new Uint32Array(256);
+    for (let y = region.y0; y < region.y1; y++) for (let x = region.x0, i = y * width + x; x < region.x1; x++, i++) hist[signal[i]]++;
+    const half = ((region.x1 - region.x0) * (region.y1 - region.y0)) / 2;
+    let c = 0;
+    for (let v = 0; v < 256; v++) if ((c += hist[v]) >= half) return v;
+    return 255;
+  };
+
+  /** Fills a disc of the scratch image with `value` (clipped to the region). */
+  const blank = (img: Uint8Array, width: number, cx: number, cy: number, radius: number, value: number): void => {
+    const y0 = Math.max(region.y0, Math.floor(cy - radius));
+    const y1 = Math.min(region.y1 - 1, Math.ceil(cy + radius));
+    const x0 = Math.max(region.x0, Math.floor(cx - radius));
+    const x1 = Math.min(region.x1 - 1, Math.ceil(cx + radius));
+    const r2 = radius * radius;
+    for (let y = y0; y <= y1; y++) for (let x = x0; x <= x1; x++) if ((x - cx) ** 2 + (y - cy) ** 2 <= r2) img[y * width + x] = value;
+  };
+
+  const start = (signal: Uint8Array, width: number): boolean => {
+    const found = findSpots(signal, width, region).spots;
+    if (found.length < count) return false;
+    // a spot whose equal-area disc would cross the region's edge (a dark corner, the rim) is taken only if nothing else is left
+    const inside = (p: { x_px: number; y_px: number; area_px: number }): boolean =>
+      Math.min(p.x_px - region.x0, region.x1 - 1 - p.x_px, p.y_px - region.y0, region.y1 - 1 - p.y_px) > Math.sqrt(p.area_px / Math.PI);
+    const spots = [...found.filter(inside), ...found.filter((p) => !inside(p))].slice(0, count);
+    const mx = spots.reduce((s, p) => s + p.x_px, 0) / count;
+    const my = spots.reduce((s, p) => s + p.y_px, 0) / count;
+    const polar = (p: { x_px: number; y_px: number }): number => {
+      const a = Math.atan2(-(p.y_px - my), p.x_px - mx);
+      return a < 0 ? a + 2 * Math.PI : a;
+    };
+    spots.sort((p, q) => polar(p) - polar(q));
+    for (const s of spots) {
+      followers.push(createSpotFollower({ region }));
+      last.push({ x: s.x_px, y: s.y_px, dx: 0, dy: 0, age: 0, r: Math.sqrt(Math.max(4, s.area_px) / Math.PI) });
+    }
+    return true;
+  };
+
+  return {
+    /** Measures every marker in this frame's signal image (width px per row), at frame time t_s; one reading per marker. */
+    update(signal: Uint8Array, width: number, t_s: number): SpotReading[] {
+      const starting = followers.length === 0;
+      if (starting && !start(signal, width)) {
+        return Array.from({ length: count }, () => ({ x_px: Number.NaN, y_px: Number.NaN, quality: 0, flag: 'lost:no-blob' }));
+      }
+      scratch = scratch && scratch.length === signal.length ? scratch : new Uint8Array(signal.length);
+      const fill = regionMedian(signal, width);
+      const out: SpotReading[] = [];
+      for (let j = 0; j < count; j++) {
+        if (starting) {
+          // the first frame: the follower sees only its own spot, so it starts there and nowhere else
+          scratch.fill(fill);
+          const m = last[j];
+          const rad = 2 * m.r + 3;
+          for (let y = Math.max(region.y0, Math.floor(m.y - rad)); y <= Math.min(region.y1 - 1, Math.ceil(m.y + rad)); y++) {
+            for (let x = Math.max(region.x0, Math.floor(m.x - rad)); x <= Math.min(region.x1 - 1, Math.ceil(m.x + rad)); x++) scratch[y * width + x] = signal[y * width + x];
+          }
+        } else {
+          scratch.set(signal);
+        }
+        for (let k = 0; k < count; k++) {
+          if (k === j) continue;
+          const found = k < j && out[k].flag === '';
+          const m = last[k];
+          // a marker lost for long could be anywhere: blank it only while its place is still known
+          if (!found && m.age > MAX_BLANK_AGE) continue;
+          // where marker k is now: measured this frame, or carried on from its last step
+          const ahead = found ? 0 : m.age + 1;
+          const cx = found ? out[k].x_px : m.x + m.dx * ahead;
+          const cy = found ? out[k].y_px : m.y + m.dy * ahead;
+          // a straight step misses a circular path by a fraction of the step; half a step per frame of slack covers it and a change of rate
+          const slack = found ? 0 : 0.5 * Math.hypot(m.dx, m.dy) * ahead;
+          blank(scratch, width, cx, cy, 2 * m.r + 3 + slack, fill);
+        }
+        let r = followers[j].update(scratch, width, t_s);
+        if (r.flag === '') {
+          for (let k = 0; k < j; k++) {
+            if (out[k].flag === '' && Math.hypot(out[k].x_px - r.x_px, out[k].y_px - r.y_px) < last[j].r + last[k].r) {
+              r = { x_px: Number.NaN, y_px: Number.NaN, quality: 0, flag: 'lost:gate' };
+              break;
+            }
+          }
+        }
+        const m = last[j];
+        if (r.flag === '') {
+          const steps = m.age + 1;
+          m.dx = (r.x_px - m.x) / steps;
+          m.dy = (r.y_px - m.y) / steps;
+          m.x = r.x_px;
+          m.y = r.y_px;
+          m.age = 0;
+        } else {
+          m.age++;
+        }
+        out.push(r);
+      }
+      return out;
+    },
+  };
+}
+
+export type MarkerFollowers = ReturnType<typeof createMarkerFollowers>;
