@@ -12,6 +12,8 @@ export interface TrackSettings {
   from_s: number | null;
   to_s: number | null;
   tilt_deg: number | null;
+  /** Marker spots on the hub followed together (bright, dark, colour markers), or null for one. */
+  markers: number | null;
 }
 
 export type FitModelChoice = 'steady' | 'spinup' | 'spindown' | 'auto';
@@ -35,6 +37,6 @@ export interface RunSettings {
 
 /** Settings used when neither the defaults file nor the row says otherwise. */
 export const DEFAULT_RUN_SETTINGS: RunSettings = {
-  track: { roi: null, centre: null, marker: null, anchor: null, from_s: null, to_s: null, tilt_deg: null },
+  track: { roi: null, centre: null, marker: null, anchor: null, from_s: null, to_s: null, tilt_deg: null, markers: null },
   fit: { model: 'auto', level: 0.95, margin_deg_s: null, seed: 1 },
 };

@@ -18,6 +18,7 @@ export function trackOptionsFor(job: RunJob): TrackOptions {
   if (t.from_s !== null) o.from_s = t.from_s;
   if (t.to_s !== null) o.to_s = t.to_s;
   if (t.tilt_deg !== null) o.tilt_deg = t.tilt_deg;
+  if (t.markers !== null) o.markers = t.markers;
   if (job.tools.ffmpeg) o.ffmpeg = job.tools.ffmpeg;
   if (job.tools.ffprobe) o.ffprobe = job.tools.ffprobe;
   return o;

@@ -73,6 +73,14 @@ export const SETTING_COLUMNS: Record<string, SettingColumn> = {
     },
     apply: (s, v) => { s.track.tilt_deg = v as number; },
   },
+  markers: {
+    parse: (text) => {
+      const v = numbers(text);
+      if (!v || v.length !== 1 || !Number.isInteger(v[0]!) || v[0]! < 1 || v[0]! > 8) return { ok: false, problem: `markers "${text}" is not a number of marker spots; write a whole number from 1 to 8` };
+      return { ok: true, value: v[0]! };
+    },
+    apply: (s, v) => { s.track.markers = v as number; },
+  },
   model: {
     parse: (text) => {
       const t = text.toLowerCase();

@@ -4,6 +4,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { parseManifest } from '../../src/batch/parseManifest.js';
 import { ManifestError } from '../../src/batch/ManifestError.js';
+import { trackOptionsFor } from '../../src/batch/processRun.js';
+import type { RunJob } from '../../src/batch/RunJob.js';
 
 /** A folder with clips/a.mp4 and clips/b.mp4 (placeholder files: validation only checks they exist). */
 async function folder(): Promise<string> {
@@ -99,6 +101,21 @@ describe('parseManifest', () => {
       expect.stringMatching(/^day\.defaults\.json, "colour": is not a key a defaults file may set/),
       expect.stringMatching(/^day\.csv, line 2, column 4 "marker": marker "glowing" is unknown; write bright, dark, texture or color:#rrggbb$/),
       expect.stringMatching(/^day\.csv, line 2, column 5 "model": model "linear" is unknown; write steady, spinup, spindown or auto$/),
+    ]);
+  });
+
+  it('reads a markers column into the track settings and the tracker options, and refuses a count that is not 1–8', async () => {
+    const dir = await folder();
+    await writeFile(join(dir, 'day.csv'), 'video,run,direction,markers\nclips/a.mp4,two-arms,forward,2\nclips/b.mp4,one,reverse,\n');
+    const m = await parseManifest(join(dir, 'day.csv'));
+    expect(m.runs.map((r) => r.settings.track.markers)).toEqual([2, null]);
+    const job = (i: number) => ({ settings: m.runs[i]!.settings, tools: {} }) as unknown as RunJob;
+    expect(trackOptionsFor(job(0)).markers).toBe(2);
+    expect(trackOptionsFor(job(1)).markers).toBeUndefined();
+    const problems = await problemsOf('video,run,direction,markers\nclips/a.mp4,a,forward,0\nclips/b.mp4,b,forward,2.5\n');
+    expect(problems).toEqual([
+      expect.stringMatching(/^day\.csv, line 2, column 4 "markers": markers "0" is not a number of marker spots; write a whole number from 1 to 8$/),
+      expect.stringMatching(/^day\.csv, line 3, column 4 "markers": markers "2\.5" is not a number of marker spots; write a whole number from 1 to 8$/),
     ]);
   });
 
