@@ -20,6 +20,8 @@ export interface PreviewOptions {
   view: ViewGeometry | null;
   centre: { x_px: number; y_px: number };
   detections: { x_px: number; y_px: number }[];
+  /** With several markers: a sample of detections of each further marker (the first marker's are `detections`). */
+  other_markers?: { x_px: number; y_px: number }[][];
   signal?: AbortSignal;
 }
 
@@ -45,33 +47,35 @@ export async function drawPreview(path: string, o: PreviewOptions): Promise<Prev
 }
 
 /** Draws the set-up marks onto an RGB image in place. */
-export function markPreview(img: PreviewImage, o: Pick<PreviewOptions, 'roi' | 'anchor' | 'view' | 'centre' | 'detections'>): void {
+export function markPreview(img: PreviewImage, o: Pick<PreviewOptions, 'roi' | 'anchor' | 'view' | 'centre' | 'detections' | 'other_markers'>): void {
   rect(img, o.roi, YELLOW);
   if (o.anchor) rect(img, o.anchor, CYAN);
-  if (o.view) {
-    const v = o.view;
-    // the path: semi-major taken from the detections' mean distance in the rotor plane
-    let r = 0;
-    for (const d of o.detections) r += Math.hypot(d.x_px - v.cx_px, d.y_px - v.cy_px);
-    r = o.detections.length ? r / o.detections.length : 0;
-    if (r > 0) {
-      const phi = (v.major_axis_deg * Math.PI) / 180;
-      const a = (2 * r) / (1 + v.axis_ratio);
-      const b = a * v.axis_ratio;
-      const steps = Math.ceil(2 * Math.PI * a);
-      for (let k = 0; k < steps; k++) {
-        const t = (2 * Math.PI * k) / steps;
-        const u = a * Math.cos(t) * Math.cos(phi) - b * Math.sin(t) * Math.sin(phi);
-        const w = a * Math.cos(t) * Math.sin(phi) + b * Math.sin(t) * Math.cos(phi);
-        dot(img, v.cx_px + u, v.cy_px - w, GREEN, 0);
-      }
-    }
+  for (const points of [o.detections, ...(o.other_markers ?? [])]) {
+    if (o.view) drawPath(img, o.view, points);
+    const every = Math.max(1, Math.floor(points.length / 24));
+    for (let k = 0; k < points.length; k += every) dot(img, points[k].x_px, points[k].y_px, MAGENTA, 2);
   }
-  const every = Math.max(1, Math.floor(o.detections.length / 24));
-  for (let k = 0; k < o.detections.length; k += every) dot(img, o.detections[k].x_px, o.detections[k].y_px, MAGENTA, 2);
   for (let d = -8; d <= 8; d++) {
     dot(img, o.centre.x_px + d, o.centre.y_px, RED, 0);
     dot(img, o.centre.x_px, o.centre.y_px + d, RED, 0);
+  }
+}
+
+/** One marker's fitted path (green): the view's ellipse, its size taken from the points' mean distance from the centre, px. */
+function drawPath(img: PreviewImage, v: ViewGeometry, points: { x_px: number; y_px: number }[]): void {
+  let r = 0;
+  for (const d of points) r += Math.hypot(d.x_px - v.cx_px, d.y_px - v.cy_px);
+  r = points.length ? r / points.length : 0;
+  if (!(r > 0)) return;
+  const phi = (v.major_axis_deg * Math.PI) / 180;
+  const a = (2 * r) / (1 + v.axis_ratio);
+  const b = a * v.axis_ratio;
+  const steps = Math.ceil(2 * Math.PI * a);
+  for (let k = 0; k < steps; k++) {
+    const t = (2 * Math.PI * k) / steps;
+    const u = a * Math.cos(t) * Math.cos(phi) - b * Math.sin(t) * Math.sin(phi);
+    const w = a * Math.cos(t) * Math.sin(phi) + b * Math.sin(t) * Math.cos(phi);
+    dot(img, v.cx_px + u, v.cy_px - w, GREEN, 0);
   }
 }
 

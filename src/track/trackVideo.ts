@@ -368,9 +368,22 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     view,
     centre: { x_px: centreSummary.x_px.value, y_px: centreSummary.y_px.value },
     detections: pathSample.slice(0, 400),
+    ...(multi ? { other_markers: otherMarkerSamples(multi.paths, 400) } : {}),
     signal: options.signal,
   });
   return { series, summary, preview };
+}
+
+/** Up to `most` evenly spaced measured positions of each marker after the first, px (for the preview). */
+function otherMarkerSamples(paths: MarkerPathStore, most: number): { x_px: number; y_px: number }[][] {
+  const out: { x_px: number; y_px: number }[][] = [];
+  for (let k = 1; k < paths.count; k++) {
+    const kept: { x_px: number; y_px: number }[] = [];
+    for (let i = 0; i < paths.n; i++) if (paths.flag[k][i] === '') kept.push({ x_px: paths.x_px[k][i], y_px: paths.y_px[k][i] });
+    const every = Math.max(1, Math.ceil(kept.length / most));
+    out.push(kept.filter((_, j) => j % every === 0));
+  }
+  return out;
 }
 
 function resolveCentre(c: TrackOptions['centre']): { x_px: number; y_px: number } | null {
