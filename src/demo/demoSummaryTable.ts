@@ -1,10 +1,10 @@
 import type { RunRecord } from '../batch/RunRecord.js';
+import { headlineRate } from '../batch/summaryRow.js';
 import type { DemoRun } from './demoDay.js';
 
-/** The reported rate of a record with its interval: the steady rate, or the terminal rate of a spin-up. */
+/** The reported rate of a record with its interval: the chosen model's headline rate, as in summary.csv. */
 function reportedRate(record: RunRecord): { value: number; lo: number; hi: number } | null {
-  const fit = record.fit;
-  const est = fit?.steady?.rate_deg_s ?? fit?.spinup?.terminal_rate_deg_s ?? fit?.spindown?.initial_rate_deg_s;
+  const est = headlineRate(record)?.deg_s;
   return est ? { value: est.value, lo: est.ci[0], hi: est.ci[1] } : null;
 }
 

@@ -64,15 +64,19 @@ export interface ComparisonOptions {
   margin_deg_s?: number | null;
 }
 
-/** The rate a run contributes to the comparison: the steady rate, or a spin-up's terminal rate. */
+/**
+ * The rate a run contributes to the comparison, following the model its fit chose: the steady rate, or a
+ * spin-up's terminal rate (with `auto` a spin-up run also carries a steady fit, whose rate averages the
+ * spin-up and is not the run's rate).
+ */
 export function runRate(record: RunRecord, fit: FitReport | null): { rate: RunRate | null; reason: string | null } {
   if (record.status !== 'ok' || fit === null) return { rate: null, reason: 'the run has no fit' };
   const base = { run: record.run, direction: record.direction, group: record.group, setting: record.setting, setting_unit: record.setting_unit };
-  if (fit.steady) {
+  if (fit.model === 'steady' && fit.steady) {
     const e = fit.steady.rate_deg_s;
     return { rate: { ...base, estimate: { value_deg_s: e.value, se_deg_s: e.se, df: fit.steady.zero_test.df > 0 ? fit.steady.zero_test.df : Infinity }, ci_deg_s: e.ci, source: 'steady rate' }, reason: null };
   }
-  if (fit.spinup) {
+  if (fit.model === 'spinup' && fit.spinup) {
     const e = fit.spinup.terminal_rate_deg_s;
     return { rate: { ...base, estimate: { value_deg_s: e.value, se_deg_s: e.se, df: Infinity }, ci_deg_s: e.ci, source: 'spin-up terminal rate' }, reason: null };
   }

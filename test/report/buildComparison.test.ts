@@ -2,7 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { buildComparison } from '../../src/report/buildComparison.js';
+import { buildComparison, runRate } from '../../src/report/buildComparison.js';
+import type { FitReport } from '../../src/fit/FitReport.js';
+import type { RunRecord } from '../../src/batch/RunRecord.js';
 import { loadReportData } from '../../src/report/loadReportData.js';
 import { writeTestBatch } from './writeTestBatch.js';
 
@@ -42,5 +44,19 @@ describe('buildComparison', () => {
     } finally {
       await rm(dir, { recursive: true, force: true });
     }
+  });
+
+  it('takes the rate of the model the fit chose, not a steady fit carried beside a spin-up', () => {
+    // With --model auto every model is fitted; a spin-up run's steady fit averages the spin-up and must not be its rate.
+    const est = (value: number) => ({ value, se: 0.5, ci: [value - 1, value + 1] as [number, number], level: 0.95 });
+    const record = { run: 'f1', direction: 'forward', status: 'ok', group: '', setting: 1, setting_unit: '' } as unknown as RunRecord;
+    const both = { steady: { rate_deg_s: est(52), zero_test: { df: 7 } }, spinup: { terminal_rate_deg_s: est(90) } };
+    const spun = runRate(record, { model: 'spinup', ...both } as unknown as FitReport).rate!;
+    expect(spun.source).toBe('spin-up terminal rate');
+    expect(spun.estimate.value_deg_s).toBe(90);
+    const steady = runRate(record, { model: 'steady', ...both } as unknown as FitReport).rate!;
+    expect(steady.source).toBe('steady rate');
+    expect(steady.estimate.value_deg_s).toBe(52);
+    expect(runRate(record, { model: 'spindown', ...both } as unknown as FitReport).rate).toBeNull();
   });
 });
