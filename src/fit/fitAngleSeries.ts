@@ -121,6 +121,7 @@ function effectiveCount(residuals: Float64Array): number {
 const METHOD_STEADY =
   'steady rate by generalised least squares with a white + AR(1) + random-walk angle-noise model fitted to the variogram (Kalman filter on the real frame times), standard error by a delete-a-batch jackknife over 8 contiguous batches with a Student-t interval (at most 7 df, fewer when a few batches dominate), zero test two-sided t, equivalence by two one-sided tests, minimum detectable rate (t_{1−α/2} + t_{0.8})·se';
 const METHOD_NONLINEAR = 'spin-up and coast-down by Levenberg–Marquardt least squares with autocorrelation-aware intervals';
+const METHOD_NOT_CHOSEN = 'intervals of a spin-up or coast-down model that auto did not choose are plain Student-t, without the bootstrap calibration';
 const METHOD_RATE = 'rate curve by local quadratic least squares in real time (Savitzky–Golay on non-uniform frames)';
 
 /**
@@ -146,6 +147,9 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
   const lostShare = lost > 0 || input.lost_share === undefined ? lost / rows : input.lost_share;
   const warnings: string[] = [];
   const fitOptions = { level, seed: options.seed ?? 1 };
+  // With 'auto' the choice rests on the point fits alone, so the nonlinear models are fitted without the
+  // bootstrap first and only the chosen one is refitted with it (the bootstrap is most of their cost).
+  const firstPass = model === 'auto' ? { ...fitOptions, replicates: 0 } : fitOptions;
 
   let steady: SteadyRateFit | undefined;
   const nonlinear: Partial<Record<'spinup' | 'spindown', ModelFit<unknown>>> = {};
@@ -155,7 +159,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
       if (name === 'steady') {
         steady = fitSteadyRate(t, y, { level, ...(options.margin_deg_s !== undefined ? { margin_deg_s: options.margin_deg_s } : {}) });
       } else {
-        const fit = name === 'spinup' ? fitSpinUp(t, y, fitOptions) : fitCoastDown(t, y, fitOptions);
+        const fit = name === 'spinup' ? fitSpinUp(t, y, firstPass) : fitCoastDown(t, y, firstPass);
         if (!hasOnlyFiniteNumbers(fit.result)) throw new FitError(`the ${name === 'spinup' ? 'spin-up' : 'coast-down'} fit gave no finite estimates for this window; try another --model or a window where the rotor changes speed`);
         nonlinear[name] = fit;
       }
@@ -182,6 +186,15 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
     chosen = choice.chosen;
     selection = { rule: choice.rule, scores: choice.scores, ambiguous: choice.ambiguous };
     if (choice.ambiguous) warnings.push('the model choice is ambiguous: the runner-up scores within the margin, so report both or fix the model');
+    if (chosen === 'spinup' || chosen === 'spindown') {
+      try {
+        const calibrated = chosen === 'spinup' ? fitSpinUp(t, y, fitOptions) : fitCoastDown(t, y, fitOptions);
+        nonlinear[chosen] = calibrated;
+        fits[chosen] = calibrated;
+      } catch (err) {
+        warnings.push(`the ${chosen} intervals could not be bootstrap-calibrated (${err instanceof Error ? err.message : String(err)}); they are plain Student-t and may be too narrow`);
+      }
+    }
   }
   const best = fits[chosen]!;
   for (const k of fitted) for (const w of fits[k]!.warnings) warnings.push(k === chosen ? w : `${k}: ${w}`);
@@ -195,6 +208,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
   const methods = [
     ...(fits.steady ? [METHOD_STEADY] : []),
     ...(fits.spinup || fits.spindown ? [METHOD_NONLINEAR] : []),
+    ...(model === 'auto' && (fits.spinup || fits.spindown) ? [METHOD_NOT_CHOSEN] : []),
     ...(selection ? ['model chosen by chooseModel (' + selection.rule + ')'] : []),
     `${METHOD_RATE}, ${rate.windowRule}, band widened ×${Math.sqrt(rate.bandInflation).toFixed(2)} for residual autocorrelation`,
   ];

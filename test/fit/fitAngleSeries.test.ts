@@ -60,6 +60,10 @@ describe('fitAngleSeries', () => {
     expect(report.spinup!.terminal_rate_deg_s.ci[1]).toBeGreaterThan(120);
     expect(report.steady).toBeDefined();
     expect(report.diagnostics.warnings.some((w) => w.startsWith('steady: the segment rates differ'))).toBe(true);
+    // the chosen model carries the same bootstrap-calibrated intervals as asking for it directly
+    const direct = fitAngleSeries({ t_s: t, angle_deg: a }, { model: 'spinup', seed: 3 }).report.spinup!;
+    expect(report.spinup).toEqual(direct);
+    expect(report.method).toMatch(/did not choose are plain Student-t/);
   });
 
   const bad: [string, () => unknown, RegExp][] = [
