@@ -123,18 +123,22 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     const pts = track.path_sample.map((p) => ({ x: num(p.x_px), y: num(p.y_px) }));
     const cx = track.centre.x_px.value;
     const cy = track.centre.y_px.value;
-    const ellipse: { x: number | null; y: number | null; k: number }[] = [];
+    const ellipse: { x: number | null; y: number | null; k: number; m: number }[] = [];
     if (track.view) {
-      const a = track.view.semi_major_px;
-      const b = track.view.semi_minor_px;
+      // one path per marker: the shared shape (axis ratio, direction) at each marker's own size
+      const ratio = track.view.semi_minor_px / track.view.semi_major_px;
+      const sizes = track.markers?.semi_major_px ?? [track.view.semi_major_px];
       const phi = (track.view.major_axis_deg * Math.PI) / 180;
-      for (let k = 0; k <= 120; k++) {
-        const u = (2 * Math.PI * k) / 120;
-        // counterclockwise as displayed: image y points down
-        const ex = a * Math.cos(u) * Math.cos(phi) - b * Math.sin(u) * Math.sin(phi);
-        const ey = a * Math.cos(u) * Math.sin(phi) + b * Math.sin(u) * Math.cos(phi);
-        ellipse.push({ x: num(cx + ex), y: num(cy - ey), k });
-      }
+      sizes.forEach((a, m) => {
+        const b = a * ratio;
+        for (let k = 0; k <= 120; k++) {
+          const u = (2 * Math.PI * k) / 120;
+          // counterclockwise as displayed: image y points down
+          const ex = a * Math.cos(u) * Math.cos(phi) - b * Math.sin(u) * Math.sin(phi);
+          const ey = a * Math.cos(u) * Math.sin(phi) + b * Math.sin(u) * Math.cos(phi);
+          ellipse.push({ x: num(cx + ex), y: num(cy - ey), k, m });
+        }
+      });
     }
     const xs = [...pts.map((p) => p.x ?? cx), ...ellipse.map((p) => p.x ?? cx), cx];
     const ys = [...pts.map((p) => p.y ?? cy), ...ellipse.map((p) => p.y ?? cy), cy];
@@ -149,7 +153,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     charts.push({
       id: 'path',
       title: 'Marker path, fitted ellipse and centre',
-      caption: `Dots: marker positions (a sample, full-frame pixels, y down as in the video). ${track.view ? `Line: fitted ellipse (axis ratio ${formatFixed(track.view.axis_ratio, 3)}). ` : ''}Cross: centre (${track.centre.source === 'given' ? 'given' : 'fitted'}, ${formatFixed(cx, 1)}, ${formatFixed(cy, 1)} px).`,
+      caption: `Dots: marker positions (a sample, full-frame pixels, y down as in the video${track.markers ? `; all ${track.markers.count} markers` : ''}). ${track.view ? `Line: fitted ellipse${track.markers ? ', one per marker' : ''} (axis ratio ${formatFixed(track.view.axis_ratio, 3)}). ` : ''}Cross: centre (${track.centre.source === 'given' ? 'given' : 'fitted'}, ${formatFixed(cx, 1)}, ${formatFixed(cy, 1)} px).`,
       spec: {
         $schema: SCHEMA,
         width: side,
@@ -157,7 +161,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
         layer: [
           { data: { values: corners }, mark: { type: 'point', opacity: 0, size: 1 }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } } },
           { data: { values: pts }, mark: { type: 'point', filled: true, size: 16, opacity: 0.7, color: PALETTE.data }, encoding: { x: { field: 'x', type: 'quantitative', title: 'x (px)', scale: xScale }, y: { field: 'y', type: 'quantitative', title: 'y (px, down)', scale: yScale } } },
-          ...(ellipse.length > 0 ? [{ data: { values: ellipse }, mark: { type: 'line', color: PALETTE.model, strokeWidth: 1.2, strokeDash: [6, 3] }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' }, order: { field: 'k', type: 'quantitative' } } }] : []),
+          ...(ellipse.length > 0 ? [{ data: { values: ellipse }, mark: { type: 'line', color: PALETTE.model, strokeWidth: 1.2, strokeDash: [6, 3] }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' }, detail: { field: 'm', type: 'nominal' }, order: { field: 'k', type: 'quantitative' } } }] : []),
           { data: { values: [{ x: cx, y: cy }] }, mark: { type: 'point', shape: 'cross', filled: true, size: 140, color: PALETTE.ink }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } } },
         ],
       } as TopLevelSpec,

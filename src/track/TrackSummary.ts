@@ -43,7 +43,7 @@ export interface TrackSummary {
     phase_offset_deg: number[];
     semi_major_px: number[];
   };
-  /** Marker path samples for the report (thinned), full-frame px. */
+  /** Marker path samples for the report (thinned; with several markers, each marker's in turn), full-frame px. */
   path_sample: PointPx[];
   warnings: string[];
 }

@@ -313,6 +313,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   const pathSample: { x_px: number; y_px: number }[] = [];
   const every = Math.max(1, Math.ceil(n / 400));
   for (let i = 0; i < n; i += every) if (Number.isFinite(series.x_px[i])) pathSample.push({ x_px: series.x_px[i], y_px: series.y_px[i] });
+  const otherSamples = multi ? otherMarkerSamples(multi.paths, 400) : [];
 
   const summary: TrackSummary = {
     software: { ...SOFTWARE },
@@ -347,7 +348,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
       : null,
     frames: { decoded: n, lost, lost_by_reason: lostByReason },
     splits: unwrapped.splits.map((s) => ({ after_frame: series.frame[s.after_index], t_s: s.t_s, gap_s: s.gap_s })),
-    path_sample: pathSample,
+    path_sample: [...pathSample, ...otherSamples.flat()],
     warnings,
   };
   if (fit) summary.path_fit = { rms_px: fit.rms_px, rejected: countZeros(fit.inlier) };
@@ -368,7 +369,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     view,
     centre: { x_px: centreSummary.x_px.value, y_px: centreSummary.y_px.value },
     detections: pathSample.slice(0, 400),
-    ...(multi ? { other_markers: otherMarkerSamples(multi.paths, 400) } : {}),
+    ...(multi ? { other_markers: otherSamples } : {}),
     signal: options.signal,
   });
   return { series, summary, preview };

@@ -1,0 +1,50 @@
+// runChartSpecs: the per-run marker-path chart draws one fitted ellipse per marker.
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { loadReportData } from '../../src/report/loadReportData.js';
+import type { RunData } from '../../src/report/ReportData.js';
+import { runChartSpecs } from '../../src/report/runCharts.js';
+import { SMALL_DAY, writeTestBatch } from './writeTestBatch.js';
+
+let dir: string;
+let run: RunData;
+
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), 'revtrace-runcharts-'));
+  await writeTestBatch(dir, SMALL_DAY.slice(0, 1));
+  run = (await loadReportData(dir)).runs[0]!;
+});
+afterAll(async () => {
+  await rm(dir, { recursive: true, force: true });
+});
+
+/** The ellipse layer of the path chart: its points grouped by marker, each as distances from the centre along the major axis. */
+function ellipsesOf(data: RunData): Map<number, { x: number; y: number }[]> {
+  const path = runChartSpecs(data).find((c) => c.id === 'path')!;
+  const layers = (path.spec as unknown as { layer: { data: { values: { x: number; y: number; k?: number; m?: number }[] } }[] }).layer;
+  const line = layers.find((l) => l.data.values.length > 0 && l.data.values[0]!.k !== undefined)!;
+  const out = new Map<number, { x: number; y: number }[]>();
+  for (const p of line.data.values) out.set(p.m!, [...(out.get(p.m!) ?? []), { x: p.x, y: p.y }]);
+  return out;
+}
+
+describe('runChartSpecs, marker path', () => {
+  // The test batch's view: centre (120, 110), semi-axes 60 × 45 px, major axis along x (axis ratio 0.75).
+  it('draws the fitted ellipse of a single marker', () => {
+    const e = ellipsesOf(run);
+    expect([...e.keys()]).toEqual([0]);
+    const xs = e.get(0)!.map((p) => p.x);
+    expect(Math.max(...xs) - 120).toBeCloseTo(60, 6); // semi-major along x
+  });
+
+  it('draws one ellipse per marker, each at its own size with the shared shape', () => {
+    const withMarkers: RunData = { ...run, track: { ...run.track!, markers: { count: 2, found_frames: [10, 10], all_found_frames: 10, first_all_found_frame: 0, phase_offset_deg: [0, 180], semi_major_px: [60, 40] } } };
+    const e = ellipsesOf(withMarkers);
+    expect([...e.keys()].sort()).toEqual([0, 1]);
+    const second = e.get(1)!;
+    expect(Math.max(...second.map((p) => p.x)) - 120).toBeCloseTo(40, 6);
+    expect(Math.max(...second.map((p) => p.y)) - 110).toBeCloseTo(40 * 0.75, 6); // semi-minor = 40 × axis ratio (y down)
+  });
+});
