@@ -25,14 +25,17 @@ function numberOption(name: string, text: string | undefined): number | undefine
   return v;
 }
 
+/** An estimate with its interval, to as many decimals as the interval's half-width needs for two significant digits. */
 function show(e: Estimate, unit: string): string {
-  const p = (v: number): string => Number(v.toPrecision(4)).toString();
+  const half = Math.abs(e.ci[1] - e.ci[0]) / 2;
+  const decimals = half > 0 && Number.isFinite(half) ? Math.min(12, Math.max(0, 1 - Math.floor(Math.log10(half)))) : 4;
+  const p = (v: number): string => v.toFixed(decimals);
   return `${p(e.value)} ${unit} (${Math.round(e.level * 100)}% CI ${p(e.ci[0])} to ${p(e.ci[1])})`;
 }
 
 /** A few lines for a person: the chosen model's headline numbers and any warnings. */
 export function fitSummaryText(report: FitReport, outPath: string): string {
-  const lines = [`model ${report.model}${report.selection?.ambiguous ? ' (ambiguous choice)' : ''}, ${report.n} frames, ${report.window_s[0]}–${report.window_s[1]} s`];
+  const lines = [`model ${report.model}${report.selection?.ambiguous ? ' (ambiguous choice)' : ''}, ${report.n} frames, ${Number(report.window_s[0].toPrecision(10))}–${Number(report.window_s[1].toPrecision(10))} s`];
   const s = report.steady;
   if (s && report.model === 'steady') {
     lines.push(`rate ${show(s.rate_deg_s, 'deg/s')} = ${show(s.rate_rpm, 'rpm')}`);

@@ -85,7 +85,13 @@ export interface FitReport {
     warnings: string[];
   };
   /** Present when the model was chosen automatically. */
-  selection?: { rule: string; scores: Partial<Record<ModelName, number>>; ambiguous: boolean };
+  selection?: {
+    rule: string;
+    scores: Partial<Record<ModelName, number>>;
+    ambiguous: boolean;
+    /** What the models not chosen said: why one could not be fitted, and their own warnings (not about the chosen numbers). */
+    notes: string[];
+  };
   steady?: SteadyResult;
   spinup?: SpinUpResult;
   spindown?: SpinDownResult;

@@ -154,6 +154,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
   let steady: SteadyRateFit | undefined;
   const nonlinear: Partial<Record<'spinup' | 'spindown', ModelFit<unknown>>> = {};
   const wanted: ModelName[] = model === 'auto' ? ['steady', 'spinup', 'spindown'] : [model];
+  const notFitted: string[] = [];
   for (const name of wanted) {
     try {
       if (name === 'steady') {
@@ -164,11 +165,11 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
         nonlinear[name] = fit;
       }
     } catch (err) {
-      if (model !== 'auto') {
+      if (model !== 'auto' || (name === 'steady' && err instanceof InputError)) {
         if (err instanceof RevtraceError) throw err;
         throw new FitError(`the ${name} fit failed (${err instanceof Error ? err.message : String(err)}); try another model or window`, 1, { cause: err });
       }
-      warnings.push(`the ${name} model could not be fitted: ${err instanceof Error ? err.message : String(err)}`);
+      notFitted.push(`the ${name} model could not be fitted: ${err instanceof Error ? err.message : String(err)}`);
     }
   }
   const fits: Partial<Record<ModelName, ModelFit<unknown>>> = { ...nonlinear, ...(steady ? { steady } : {}) };
@@ -184,7 +185,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
     });
     const choice = chooseModel(candidates);
     chosen = choice.chosen;
-    selection = { rule: choice.rule, scores: choice.scores, ambiguous: choice.ambiguous };
+    selection = { rule: choice.rule, scores: choice.scores, ambiguous: choice.ambiguous, notes: notFitted };
     if (choice.ambiguous) warnings.push('the model choice is ambiguous: the runner-up scores within the margin, so report both or fix the model');
     if (chosen === 'spinup' || chosen === 'spindown') {
       try {
@@ -197,7 +198,8 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
     }
   }
   const best = fits[chosen]!;
-  for (const k of fitted) for (const w of fits[k]!.warnings) warnings.push(k === chosen ? w : `${k}: ${w}`);
+  for (const w of best.warnings) warnings.push(w);
+  for (const k of fitted) if (k !== chosen) for (const w of fits[k]!.warnings) selection?.notes.push(`${k}: ${w}`);
   if (!best.converged) warnings.push(`the ${chosen} fit did not converge; treat its numbers as rough`);
   if (lostShare > 0.2) warnings.push(`${(100 * lostShare).toFixed(0)}% of frames were lost in the window; check the tracking before trusting the numbers`);
 
@@ -209,7 +211,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
     ...(fits.steady ? [METHOD_STEADY] : []),
     ...(fits.spinup || fits.spindown ? [METHOD_NONLINEAR] : []),
     ...(model === 'auto' && (fits.spinup || fits.spindown) ? [METHOD_NOT_CHOSEN] : []),
-    ...(selection ? ['model chosen by chooseModel (' + selection.rule + ')'] : []),
+    ...(selection ? [`model chosen automatically (${selection.rule})`] : []),
     `${METHOD_RATE}, ${rate.windowRule}, band widened ×${Math.sqrt(rate.bandInflation).toFixed(2)} for residual autocorrelation`,
   ];
   const report: FitReport = {

@@ -370,6 +370,29 @@ export function segmentHomogeneityP(fits: readonly { slope: number; se: number; 
   return 1 - jStat.centralF.cdf(stat, k - 1, nu);
 }
 
+/** True when y is a straight line in t to within rounding (largest least-squares residual ≤ 1e-9 of the angle span, deg). */
+function liesOnALine(t: Float64Array, y: Float64Array): boolean {
+  const n = t.length;
+  let mt = 0;
+  let my = 0;
+  for (let i = 0; i < n; i++) { mt += t[i]!; my += y[i]!; }
+  mt /= n;
+  my /= n;
+  let stt = 0;
+  let sty = 0;
+  for (let i = 0; i < n; i++) { stt += (t[i]! - mt) ** 2; sty += (t[i]! - mt) * (y[i]! - my); }
+  const b = stt > 0 ? sty / stt : 0;
+  let worst = 0;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    worst = Math.max(worst, Math.abs(y[i]! - my - b * (t[i]! - mt)));
+    lo = Math.min(lo, y[i]!);
+    hi = Math.max(hi, y[i]!);
+  }
+  return worst <= 1e-9 * Math.max(hi - lo, 1e-9);
+}
+
 /**
  * Steady rotation rate over a window, with an interval that stays honest when the angle noise is
  * autocorrelated (compression, flicker) and when the rate itself fluctuates (turbulence: the angle then
@@ -413,6 +436,9 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
     y[i] = angle_deg[i]! - y0;
   }
   const delta = medianInterval(t);
+  if (liesOnALine(t, y)) {
+    throw new InputError('the angles lie exactly on a straight line (no measurement noise at all), so no uncertainty can be estimated; this happens with hand-made or generated tables — measured angles always carry some noise');
+  }
 
   const model = fitAngleNoiseModel(t, y);
   const whole = glsSlope(t, y, 0, n, model, 8, true);

@@ -71,6 +71,7 @@ export function qualityNotes(run: RunData): QualityNote[] {
       const aboutOther = named.length > 0 && named[0] !== fit.model;
       notes.push({ label: aboutOther ? 'fit (model not chosen)' : 'fit', words: w, serious: !aboutOther });
     }
+    for (const w of fit.selection?.notes ?? []) notes.push({ label: 'fit (model not chosen)', words: w, serious: false });
   }
   const seen = new Set(notes.map((n) => n.words));
   for (const w of record.warnings) if (!seen.has(w)) notes.push({ label: 'batch', words: w, serious: true });

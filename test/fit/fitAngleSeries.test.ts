@@ -47,6 +47,13 @@ describe('fitAngleSeries', () => {
     expect(wide.ci[1] - wide.ci[0]).toBeGreaterThan(s.rate_deg_s.ci[1] - s.rate_deg_s.ci[0]);
   });
 
+  it('with auto on a steady run, keeps what the other models said out of the warnings', () => {
+    const { report } = fitAngleSeries(reverseRun(), { model: 'auto' });
+    expect(report.model).toBe('steady');
+    expect(report.diagnostics.warnings.filter((w) => /spin-?up|spindown|coast/i.test(w))).toEqual([]);
+    expect(report.selection!.notes.length).toBeGreaterThan(0); // e.g. "the spinup model could not be fitted: …"
+  });
+
   it('with auto, fits all three models and picks spin-up for a spin-up run', () => {
     // invented spin-up: at rest for 1 s, then ω → 120 deg/s with τ = 1.5 s; 10 s at 30 fps, seeded noise 0.2 deg
     const noise = simulateSteady({ seed: 5, n: 300, fps: 30, rate_deg_s: 0, white_deg: 0.2 }).angle_deg;
@@ -59,7 +66,9 @@ describe('fitAngleSeries', () => {
     expect(report.spinup!.terminal_rate_deg_s.ci[0]).toBeLessThan(120);
     expect(report.spinup!.terminal_rate_deg_s.ci[1]).toBeGreaterThan(120);
     expect(report.steady).toBeDefined();
-    expect(report.diagnostics.warnings.some((w) => w.startsWith('steady: the segment rates differ'))).toBe(true);
+    // what the steady model (not chosen) says about its own fit is a note on the choice, not a warning about the spin-up
+    expect(report.selection!.notes.some((w) => w.startsWith('steady: the segment rates differ'))).toBe(true);
+    expect(report.diagnostics.warnings.some((w) => w.startsWith('steady:'))).toBe(false);
     // the chosen model carries the same bootstrap-calibrated intervals as asking for it directly
     const direct = fitAngleSeries({ t_s: t, angle_deg: a }, { model: 'spinup', seed: 3 }).report.spinup!;
     expect(report.spinup).toEqual(direct);
@@ -67,6 +76,7 @@ describe('fitAngleSeries', () => {
   });
 
   const bad: [string, () => unknown, RegExp][] = [
+    ['angles exactly on a line (no noise)', () => fitAngleSeries({ t_s: Float64Array.from({ length: 40 }, (_, i) => i / 10), angle_deg: Float64Array.from({ length: 40 }, (_, i) => (2 * i) / 10) }), /^the angles lie exactly on a straight line \(no measurement noise at all\)/],
     ['a start after the data', () => fitAngleSeries(reverseRun(), { from_s: 100, to_s: 120 }), /^--from 100 s is at or after the last row \(\S+ s\); choose a start inside the data/],
     ['an end before the data', () => fitAngleSeries(reverseRun(), { to_s: -5 }), /^--to -5 s is at or before the first row \(\S+ s\); choose an end inside the data/],
     ['an empty window', () => fitAngleSeries(reverseRun(), { from_s: 30, to_s: 20 }), /is empty/],
