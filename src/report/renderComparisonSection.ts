@@ -30,7 +30,7 @@ function comparisonRow(s: SettingComparison, level: number): SafeHtml {
   const alpha = 1 - level;
   const verdict = c.p_opposite < alpha ? 'turns the other way' : 1 - c.p_opposite < alpha && sameWay ? 'turns the same way' : 'direction not settled';
   return html`<tr><th scope="row">${label}</th>${rateCell(s.forward)}${rateCell(s.reverse)}
-<td class="num">${ratioText(c.ratio.value, c.ratio.fieller, c.ratio.delta.se)}<br><small>delta method ±${formatSig(c.ratio.delta.se, 2)} (se)</small></td>
+<td class="num">${ratioText(c.ratio.value, c.ratio.fieller, c.ratio.delta.se)}<br><small>standard error ${formatSig(c.ratio.delta.se, 2)} (delta method)</small></td>
 <td class="num">${formatP(c.p_opposite)}<br><small>${verdict}</small></td>
 <td>${eqText}</td>
 <td class="num">${formatSig(c.min_detectable_deg_s, 2)} deg/s<br><small>${formatSig(c.min_detectable_deg_s / 6, 2)} rpm</small></td>
