@@ -168,14 +168,19 @@ export async function parseManifest(manifestPath: string, options: ParseManifest
     }
 
     const settings = structuredClone(defaults.settings);
+    const unreadable = new Set<string>();
     for (const name of Object.keys(SETTING_COLUMNS)) {
       const text = cell(name);
       if (text === '') continue;
       const parsed = SETTING_COLUMNS[name]!.parse(text);
       if (parsed.ok) SETTING_COLUMNS[name]!.apply(settings, parsed.value);
-      else at(name, parsed.problem);
+      else {
+        at(name, parsed.problem);
+        unreadable.add(name);
+      }
     }
-    if (problems.length === before) {
+    // the window check needs both of its cells readable; other problems in the row do not hide it
+    if (!unreadable.has('from') && !unreadable.has('to')) {
       for (const p of crossSettingProblems(settings)) {
         if (index.has(p.column)) at(p.column, p.message);
         else problems.push({ line, column: null, column_name: null, message: p.message });

@@ -86,6 +86,15 @@ describe('parseManifest', () => {
     ]);
   });
 
+  it('lists a window that ends before it starts beside the row\'s other problems', async () => {
+    const problems = await problemsOf('video,run,direction,roi,from,to\nclips/a.mp4,a,sideways,"1,2",5,2\n');
+    expect(problems).toEqual([
+      expect.stringMatching(/^day\.csv, line 2, column 3 "direction": the direction "sideways" is unknown/),
+      expect.stringMatching(/^day\.csv, line 2, column 4 "roi": roi "1,2" is not a region/),
+      expect.stringMatching(/^day\.csv, line 2, column 6 "to": to \(2 s\) is not after from \(5 s\)/),
+    ]);
+  });
+
   it('names a missing required column and an unknown column in the header', async () => {
     const problems = await problemsOf('video,run,diretion\nclips/a.mp4,fwd-1,forward\n');
     expect(problems).toEqual([
