@@ -39,7 +39,8 @@ export function acosDeg(r: number): number {
  * The view (centre, axis ratio, major-axis direction) from a fitted marker path: the path's ellipse is used
  * when it differs from a circle by more than 2 standard errors (and 0.2 %), else the camera is taken as
  * square-on; a given tilt overrides the ratio (cos tilt). The summary reports the implied tilt (deg) with
- * its standard error from d(tilt)/d(ratio) = −1/sin(tilt), and the centre as fitted or as given.
+ * its standard error from d(tilt)/d(ratio) = −1/sin(tilt) and an interval that starts at 0° when the path
+ * is not distinguishable from a circle, and the centre as fitted or as given.
  * `max_correction_deg` is left 0 for the caller to fill in.
  */
 export function viewFromPathFit(fit: PathFitShape, settings: ViewSettings): ViewResult {
@@ -63,7 +64,9 @@ export function viewFromPathFit(fit: PathFitShape, settings: ViewSettings): View
       axis_ratio: ratio,
       tilt_deg: settings.tilt_deg !== undefined
         ? givenQuantity(settings.tilt_deg)
-        : { value: acosDeg(ratio), se: tiltSe, ci: [acosDeg(fit.ci95.axis_ratio[1]), acosDeg(fit.ci95.axis_ratio[0])], level: 0.95 },
+        // a path not distinguishable from a circle: the interval reaches down to square-on (the ratio of a noisy
+        // circle's fitted ellipse is below 1 by construction, so its own interval would exclude 0°)
+        : { value: acosDeg(ratio), se: tiltSe, ci: [significant ? acosDeg(fit.ci95.axis_ratio[1]) : 0, acosDeg(fit.ci95.axis_ratio[0])], level: 0.95 },
       max_correction_deg: 0,
       corrected: useRatio !== 1,
     },
