@@ -224,3 +224,14 @@ export function fitAngleNoiseModel(t_s: Float64Array, y: Float64Array, options: 
   // WALK_GAIN): a walk that explains nothing still widens every interval (our rule, from the seeded study)
   return bestNoWalk && bestNoWalk.loss <= WALK_GAIN * best!.loss ? bestNoWalk.model : best!.model;
 }
+
+/**
+ * Covariance of the angle noise at a time lag, deg² (lag in s): white at lag 0, AR(1) as s²·exp(−|lag|/τ_c),
+ * and the random walk as −q·|lag|/2 — its exact contribution for weights that sum to zero (a derivative's),
+ * since q·min(t_a, t_b) = q·(t_a + t_b − |t_a − t_b|)/2 and the first two terms cancel.
+ */
+export function angleNoiseCovariance(model: AngleNoiseModel, lag_s: number): number {
+  const a = Math.abs(lag_s);
+  const ar = model.ar_var_deg2 > 0 && model.ar_time_s > 0 ? model.ar_var_deg2 * Math.exp(-a / model.ar_time_s) : 0;
+  return (a === 0 ? model.white_var_deg2 : 0) + ar - 0.5 * model.walk_deg2_per_s * a;
+}

@@ -4,6 +4,7 @@ import { fitSteadyRate, type SteadyRateFit } from './steadyRate.js';
 import { fitSpinUp } from './spinUp.js';
 import { fitCoastDown } from './coastDown.js';
 import { chooseModel } from './chooseModel.js';
+import { angleNoiseCovariance } from './angleNoiseModel.js';
 import { smoothRate } from '../signal/smoothRate.js';
 import { autocorrelation } from '../signal/longRunVariance.js';
 import { InputError, RevtraceError } from '../errors.js';
@@ -203,7 +204,14 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
   if (!best.converged) warnings.push(`the ${chosen} fit did not converge; treat its numbers as rough`);
   if (lostShare > 0.2) warnings.push(`${(100 * lostShare).toFixed(0)}% of frames were lost in the window; check the tracking before trusting the numbers`);
 
-  const rate = smoothRate(t, y, { level, ...(options.smoothing_half_width_s !== undefined ? { halfWidth_s: options.smoothing_half_width_s } : {}) });
+  // a steady run's band uses the noise model its rate was fitted with (white + AR + walk); the models of a
+  // changing rate have no such description, and their band keeps the residual-based inflation
+  const noise = chosen === 'steady' && steady ? steady.noise : null;
+  const rate = smoothRate(t, y, {
+    level,
+    ...(options.smoothing_half_width_s !== undefined ? { halfWidth_s: options.smoothing_half_width_s } : {}),
+    ...(noise ? { noiseCovariance: (lag_s: number) => angleNoiseCovariance(noise, lag_s) } : {}),
+  });
   const residuals = best.residuals_deg;
   let rss = 0;
   for (const e of residuals) rss += e * e;
@@ -212,7 +220,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
     ...(fits.spinup || fits.spindown ? [METHOD_NONLINEAR] : []),
     ...(model === 'auto' && (fits.spinup || fits.spindown) ? [METHOD_NOT_CHOSEN] : []),
     ...(selection ? [`model chosen automatically (${selection.rule})`] : []),
-    `${METHOD_RATE}, ${rate.windowRule}, band widened ×${Math.sqrt(rate.bandInflation).toFixed(2)} for residual autocorrelation`,
+    `${METHOD_RATE}, ${rate.windowRule}, band ${noise ? `from the steady noise model (×${Math.sqrt(rate.bandInflation).toFixed(2)} the white-noise band)` : `widened ×${Math.sqrt(rate.bandInflation).toFixed(2)} for residual autocorrelation`}`,
   ];
   const report: FitReport = {
     model: chosen,

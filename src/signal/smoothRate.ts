@@ -16,7 +16,17 @@ export interface SmoothRateOptions {
   level?: number;
   /** At most this many output rows; longer series are evaluated at every k-th sample (default 20 000). */
   maxRows?: number;
+  /**
+   * The angle noise's covariance at a time lag, deg² (lag in s), when a noise model is known (e.g. the steady
+   * fit's white + AR + random walk; a walk enters as −q·|lag|/2, exact for weights that sum to zero, as a
+   * derivative's do). The band then uses each rate's exact variance wᵀCw instead of the residual-based
+   * inflation, which the local fits themselves damp.
+   */
+  noiseCovariance?: (lag_s: number) => number;
 }
+
+/** Rows at which the model-based band factor is computed: at most this many, spread over the output rows. */
+const COVARIANCE_ROWS = 40;
 
 /** The smoothed angle and its derivative (the rows of rate.csv) with a pointwise band. */
 export interface SmoothedRate {
@@ -93,6 +103,41 @@ function correlationLength(res: ArrayLike<number>): number {
 }
 
 /**
+ * Median over up to COVARIANCE_ROWS output rows of Var(rate) under the noise covariance C, wᵀCw with w the
+ * derivative's weights (found by fitting unit vectors: the local fit is linear in the data), divided by the
+ * white-noise variance σ̂²·Σw² the band would otherwise start from.
+ */
+function modelVarianceRatio(t_s: Float64Array, outIdx: number[], h: number, order: number, cov: (lag_s: number) => number, white_var: number): number {
+  const step = Math.max(1, Math.floor(outIdx.length / COVARIANCE_ROWS));
+  const unit = new Float64Array(t_s.length);
+  const ratios: number[] = [];
+  for (let r = Math.floor(step / 2); r < outIdx.length; r += step) {
+    const i = outIdx[r]!;
+    const [lo, hi] = windowAround(t_s, i, h, order + 2);
+    const w = new Float64Array(hi - lo + 1);
+    let ok = true;
+    for (let j = lo; j <= hi && ok; j++) {
+      unit[j] = 1;
+      const f = localPolynomialAt(t_s, unit, i, lo, hi, h, order);
+      unit[j] = 0;
+      if (!f || !Number.isFinite(f.rate)) ok = false;
+      else w[j - lo] = f.rate;
+    }
+    if (!ok) continue;
+    let v = 0;
+    let ww = 0;
+    for (let a = 0; a < w.length; a++) {
+      ww += w[a]! * w[a]!;
+      for (let b = 0; b < w.length; b++) v += w[a]! * w[b]! * cov(t_s[lo + a]! - t_s[lo + b]!);
+    }
+    if (ww > 0) ratios.push(v / (white_var * ww));
+  }
+  if (ratios.length === 0) return Number.NaN;
+  ratios.sort((x, y) => x - y);
+  return ratios[Math.floor(ratios.length / 2)]!;
+}
+
+/**
  * Smoothed angle and rotation rate by local polynomials in real time (the Savitzky–Golay filter on
  * possibly non-uniform frame times), with a pointwise band.
  * Window rule (when halfWidth_s is not given): among half-widths of (order+1+l)·δ·1.5^k (δ the median frame
@@ -102,7 +147,9 @@ function correlationLength(res: ArrayLike<number>): number {
  * leave-one-out would follow autocorrelated noise and pick far too narrow a window.
  * Band: rate ± t·σ̂·√(rateFactor·r), σ̂² = mean(e_i²)/mean(1 − H_ii) (unbiased for a local least-squares fit)
  * and r ≥ 1 the long-run-to-plain variance ratio of the residuals (the larger of the Bartlett estimate with
- * Andrews' bandwidth and the AR(1) ratio (1 + ρ₁)/(1 − ρ₁)), so the band widens for autocorrelated noise. The band covers noise, not the smoothing bias of a window that is too wide.
+ * Andrews' bandwidth and the AR(1) ratio (1 + ρ₁)/(1 − ρ₁)), so the band widens for autocorrelated noise;
+ * given a noise covariance (options.noiseCovariance), r is instead the model's exact variance of the rate
+ * over σ̂²·rateFactor (modelVarianceRatio). The band covers noise, not the smoothing bias of a window that is too wide.
  * @param t_s frame times, seconds, strictly increasing
  * @param angle_deg unwrapped angle, degrees
  */
@@ -163,13 +210,17 @@ export function smoothRate(t_s: Float64Array, angle_deg: Float64Array, options: 
   // long-run/plain variance ratio: the larger of the Bartlett estimate and the AR(1) value (1 + ρ)/(1 − ρ),
   // because the Bartlett estimate is biased low for strong correlation (Andrews 1991, §6)
   const rho1 = Math.min(0.99, Math.max(0, autocorrelation(res, 1)[0] ?? 0));
-  const inflation = Math.max(1, longRunVarianceRatio(res), (1 + rho1) / (1 - rho1));
+  let inflation = Math.max(1, longRunVarianceRatio(res), (1 + rho1) / (1 - rho1));
 
   const stride = Math.max(1, Math.ceil(n / maxRows));
   const outIdx: number[] = [];
   for (let i = 0; i < n; i += stride) outIdx.push(i);
   if (outIdx[outIdx.length - 1] !== n - 1) outIdx.push(n - 1);
   const fits = evaluate(t_s, angle_deg, outIdx, h, order);
+  if (options.noiseCovariance && noiseSd > 0) {
+    const ratio = modelVarianceRatio(t_s, outIdx, h, order, options.noiseCovariance, noiseSd * noiseSd);
+    if (Number.isFinite(ratio) && ratio > 0) inflation = ratio;
+  }
   const tq = jStat.studentt.inv(0.5 + level / 2, Math.max(1, n - order - 1));
   const m = outIdx.length;
   const result: SmoothedRate = {
