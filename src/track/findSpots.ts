@@ -30,6 +30,8 @@ export interface FindSpotsOptions {
   background_percentile?: number;
   /** Largest number of spots returned, biggest first (default 16). */
   max_spots?: number;
+  /** Also return spots that touch the window's border (default false: such a spot is cut off by the window, so its centroid is biased and it is not a whole marker). */
+  keep_edge_spots?: boolean;
 }
 
 /**
@@ -38,6 +40,7 @@ export interface FindSpotsOptions {
  * a global change of lighting does not matter: background B = a high percentile, contrast C = max − B;
  * spots are seeded above B + seed_share·C and grown (4-connected) over pixels above T = B + grow_share·C.
  * Each spot's position is the centroid weighted by the excess over T (sub-pixel; common practice, no source).
+ * A spot with a pixel on the window's border (a background corner, a rim, a marker half outside) is left out.
  */
 export function findSpots(signal: Uint8Array, width: number, win: Window, options: FindSpotsOptions = {}): { spots: Spot[]; contrast: number; noise: number } {
   const w = win.x1 - win.x0;
@@ -65,6 +68,7 @@ export function findSpots(signal: Uint8Array, width: number, win: Window, option
   if (contrast < (options.min_contrast_noise ?? 8) * noise) return { spots: [], contrast, noise };
   const seed = background + (options.seed_share ?? 0.5) * contrast;
   const grow = background + (options.grow_share ?? 0.25) * contrast;
+  const keepEdge = options.keep_edge_spots ?? false;
   const visited = new Uint8Array(n);
   const stack: number[] = [];
   const spots: Spot[] = [];
@@ -77,6 +81,7 @@ export function findSpots(signal: Uint8Array, width: number, win: Window, option
       let sy = 0;
       let area = 0;
       let top = 0;
+      let onEdge = false;
       visited[k] = 1;
       stack.push(k);
       while (stack.length) {
@@ -90,11 +95,13 @@ export function findSpots(signal: Uint8Array, width: number, win: Window, option
         sy += wt * qy;
         area++;
         if (v > top) top = v;
+        if (qx === win.x0 || qx === win.x1 - 1 || qy === win.y0 || qy === win.y1 - 1) onEdge = true;
         if (qx > win.x0 && !visited[q - 1] && signal[qy * width + qx - 1] > grow) { visited[q - 1] = 1; stack.push(q - 1); }
         if (qx < win.x1 - 1 && !visited[q + 1] && signal[qy * width + qx + 1] > grow) { visited[q + 1] = 1; stack.push(q + 1); }
         if (qy > win.y0 && !visited[q - w] && signal[(qy - 1) * width + qx] > grow) { visited[q - w] = 1; stack.push(q - w); }
         if (qy < win.y1 - 1 && !visited[q + w] && signal[(qy + 1) * width + qx] > grow) { visited[q + w] = 1; stack.push(q + w); }
       }
+      if (onEdge && !keepEdge) continue;
       if (sw > 0) spots.push({ x_px: sx / sw, y_px: sy / sw, area_px: area, contrast: top - background, noise });
     }
   }

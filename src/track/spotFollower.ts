@@ -19,8 +19,10 @@ export interface SpotFollowerOptions {
   gate_rms_factor?: number;
   /** A spot whose area differs from the recent median by more than this factor is refused (default 1.6). */
   area_factor?: number;
-  /** After this many frames lost in a row, forget the motion and search the whole region again (default 15). */
+  /** After this many frames lost in a row, forget the motion and the spot size and search the whole region again (default 15). */
   reacquire_after?: number;
+  /** Where to start, signal-image px: the first search takes the spot nearest this point (default: the biggest spot). */
+  start?: { x_px: number; y_px: number };
 }
 
 /**
@@ -39,6 +41,7 @@ export function createSpotFollower(options: SpotFollowerOptions) {
   const misses: number[] = [];
   const areas: number[] = [];
   let lostRun = 0;
+  let start = options.start ?? null;
 
   /** Predictions for time t: along the circle through the first, middle and last kept points (constant
    * angular rate over the last step), and straight on from the last step; the marker may match either. */
@@ -72,8 +75,10 @@ export function createSpotFollower(options: SpotFollowerOptions) {
     /** Measures the marker in this frame's signal image (width px per row), at frame time t_s. */
     update(signal: Uint8Array, width: number, t_s: number): SpotReading {
       if (lostRun >= reacquireAfter) {
+        // start afresh: the motion and the size learned before may belong to something else
         hist.length = 0;
         misses.length = 0;
+        areas.length = 0;
       }
       const preds = predict(t_s);
       const pred = preds.length ? preds[0] : null;
@@ -95,9 +100,11 @@ export function createSpotFollower(options: SpotFollowerOptions) {
         const all = findSpots(signal, width, region);
         if (all.spots.length === 0) return lost('lost:no-blob');
         let best = all.spots[0];
-        if (pred) {
-          for (const s of all.spots) if (Math.hypot(s.x_px - pred.x, s.y_px - pred.y) < Math.hypot(best.x_px - pred.x, best.y_px - pred.y)) best = s;
+        const near = pred ?? (start ? { x: start.x_px, y: start.y_px } : null);
+        if (near) {
+          for (const s of all.spots) if (Math.hypot(s.x_px - near.x, s.y_px - near.y) < Math.hypot(best.x_px - near.x, best.y_px - near.y)) best = s;
         }
+        start = null;
         candidate = { x: best.x_px, y: best.y_px };
         if (typicalArea === 0) {
           areas.push(best.area_px);

@@ -13,7 +13,8 @@ import { colourSimilarityTable } from './colourDistanceTable.js';
 import { fitCircle } from './fitCircle.js';
 import { fitEllipseRobust, type RobustEllipseFit } from './fitEllipseRobust.js';
 import { rotorPlaneAngle, wrapDeg, type ViewGeometry } from './rotorPlaneAngle.js';
-import { createSpotFollower } from './spotFollower.js';
+import { createMarkerHypotheses, pickMarkerTrack } from './markerHypotheses.js';
+import { offCircle } from './pathCheck.js';
 import { createMarkerFollowers } from './followMarkers.js';
 import { MarkerPathStore } from './MarkerPathStore.js';
 import { multiMarkerGeometry } from './multiMarkerGeometry.js';
@@ -36,6 +37,8 @@ export interface TrackResult {
 const MIN_ARC_FREE_DEG = 270;
 /** Arc (deg) needed to fit the view about a given centre. */
 const MIN_ARC_CENTRED_DEG = 150;
+/** Share of kept marker detections off the marker's circle above which the track is reported as doubtful. */
+const OFF_CIRCLE_WARN_SHARE = 0.1;
 
 /**
  * Tracks a rotating hub in a video and returns its unwrapped angle per decoded frame.
@@ -72,7 +75,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   // ---- one decoding pass: per-frame numbers only ----
   const store = new FrameStore();
   const region = { x0: roi.x - crop.x, y0: roi.y - crop.y, x1: roi.x - crop.x + roi.w, y1: roi.y - crop.y + roi.h };
-  const follower = mode.kind === 'texture' ? null : createSpotFollower({ region });
+  const follower = mode.kind === 'texture' ? null : createMarkerHypotheses({ region });
   const multi = markerCount > 1 ? { followers: createMarkerFollowers({ region, count: markerCount }), paths: new MarkerPathStore(markerCount) } : null;
   const colourTable = mode.kind === 'color' ? colourSimilarityTable(mode.rgb, tolerance) : null;
   const anchorTracker: AnchorTracker | null = anchor ? createAnchorTracker({ anchor }) : null;
@@ -128,6 +131,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     if (anchorTracker && !Number.isFinite(motion.dx_px)) {
       store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:camera');
       multi?.paths.pushLost('lost:camera');
+      if (!multi) follower?.skip('lost:camera');
     } else if (texture && centre) {
       let offset: { dx_px: number; dy_px: number } | undefined;
       if (anchorTracker) {
@@ -168,17 +172,14 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
         if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
         continue;
       }
-      const r = follower.update(signal, W, frame.t_s);
-      const x = r.x_px + crop.x;
-      const y = r.y_px + crop.y;
-      let sx = x;
-      let sy = y;
-      if (anchorTracker && Number.isFinite(x)) {
-        const p = removeCameraMotion({ x_px: x, y_px: y }, motion, anchorTracker.pivot);
-        sx = p.x_px;
-        sy = p.y_px;
-      }
-      store.push(frame.index, frame.t_s, x, y, sx, sy, NaN, r.quality, r.flag);
+      // candidate tracks are kept for the whole pass; the marker's is chosen afterwards
+      follower.update(signal, W, frame.t_s, (x_px, y_px) => {
+        const x = x_px + crop.x;
+        const y = y_px + crop.y;
+        const p = anchorTracker ? removeCameraMotion({ x_px: x, y_px: y }, motion, anchorTracker.pivot) : { x_px: x, y_px: y };
+        return { x_px: x, y_px: y, sx_px: p.x_px, sy_px: p.y_px };
+      });
+      store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:no-blob');
     }
     if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
   }
@@ -186,6 +187,18 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     throw new TrackingError(`no frames were decoded from ${path} between ${options.from_s ?? 'the start'} and ${options.to_s ?? 'the end'} s; check --from and --to`, path);
   }
   const n = store.n;
+  if (follower && !multi && follower.tracks.length > 0) {
+    const chosen = follower.tracks[pickMarkerTrack(follower.tracks, centre)];
+    for (let i = 0; i < n; i++) {
+      if (store.flag[i] === 'lost:camera') continue;
+      store.x[i] = chosen.x_px[i];
+      store.y[i] = chosen.y_px[i];
+      store.sx[i] = chosen.sx_px[i];
+      store.sy[i] = chosen.sy_px[i];
+      store.q[i] = chosen.quality[i];
+      store.flag[i] = chosen.flag[i];
+    }
+  }
   const t_s = store.t.subarray(0, n);
   const quality = store.q.subarray(0, n);
   const flag = store.flag;
@@ -261,6 +274,22 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
       ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewWithoutPathFit(
         cx, cy, { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg }, arcAbout, 'The marker', warnings,
       ));
+    }
+    // a marker keeps its distance from the axis; a drifting particle or a corner of the region does not
+    const kept = good.filter((i) => flag[i] === '');
+    const { off } = offCircle(Float64Array.from(kept, (i) => store.sx[i]), Float64Array.from(kept, (i) => store.sy[i]), view);
+    let offCount = 0;
+    for (let k = 0; k < kept.length; k++) {
+      if (off[k]) {
+        flag[kept[k]] = 'lost:off-path';
+        quality[kept[k]] = 0;
+        offCount++;
+      }
+    }
+    if (offCount > OFF_CIRCLE_WARN_SHARE * kept.length) {
+      warnings.push(
+        `${((100 * offCount) / kept.length).toFixed(0)}% of the marker detections lie off a circle about the centre ${view.cx_px.toFixed(1)},${view.cy_px.toFixed(1)}, so the follower may have followed something else (a drifting particle, a reflection, an edge); check preview.png, --roi and --center.`,
+      );
     }
     const plain: ViewGeometry = { cx_px: view.cx_px, cy_px: view.cy_px, axis_ratio: 1, major_axis_deg: 0 };
     for (let i = 0; i < n; i++) {

@@ -1,0 +1,108 @@
+import { describe, expect, it } from 'vitest';
+import { findSpots } from '../../src/track/findSpots.js';
+import { circularPathScore } from '../../src/track/markerHypotheses.js';
+import { offCircle, rotorPlaneRadius } from '../../src/track/pathCheck.js';
+
+// Truth: exact geometry of points we place ourselves (a circle, an ellipse, a straight line), and a drawn
+// image whose spots we know; common practice, no source.
+
+/** Points every step_deg on a circle of radius r about (cx, cy), image y down, n points from angle a0. */
+function arc(cx: number, cy: number, r: number, a0_deg: number, step_deg: number, n: number): { x: Float64Array; y: Float64Array } {
+  const x = new Float64Array(n);
+  const y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const a = ((a0_deg + i * step_deg) * Math.PI) / 180;
+    x[i] = cx + r * Math.cos(a);
+    y[i] = cy - r * Math.sin(a);
+  }
+  return { x, y };
+}
+
+/** n points on a straight line from (x0, y0), step (dx, dy) px, with a deterministic ±0.1 px jitter like a measured centroid's. */
+function line(x0: number, y0: number, dx: number, dy: number, n: number): { x: Float64Array; y: Float64Array } {
+  return {
+    x: Float64Array.from({ length: n }, (_, i) => x0 + i * dx + 0.1 * Math.sin(1.7 * i)),
+    y: Float64Array.from({ length: n }, (_, i) => y0 + i * dy + 0.1 * Math.cos(2.3 * i)),
+  };
+}
+
+describe('circularPathScore', () => {
+  it('a marker going 1.5 turns round the centre scores its count of points; a straight drift scores far less, with or without the centre', () => {
+    const marker = arc(160, 120, 81, 0, 5, 90);
+    const drift = line(200, 40, 2, 2.2, 90);
+    for (const centre of [{ x_px: 160, y_px: 120 }, null]) {
+      expect(circularPathScore(marker.x, marker.y, centre)).toBe(90);
+      expect(circularPathScore(drift.x, drift.y, centre)).toBeLessThan(0.5 * 90);
+    }
+    // without a centre the circle through a straight path lies far outside it
+    expect(circularPathScore(drift.x, drift.y, null)).toBe(0);
+  });
+
+  it('a still spot jittering in place scores about nothing; lost frames (NaN) are skipped', () => {
+    // a corner at (79, 39) with ±0.3 px jitter
+    const n = 60;
+    const x = Float64Array.from({ length: n }, (_, i) => 79 + 0.3 * Math.cos(2.1 * i));
+    const y = Float64Array.from({ length: n }, (_, i) => 39 + 0.3 * Math.sin(3.7 * i));
+    expect(circularPathScore(x, y, null)).toBe(0);
+    expect(circularPathScore(x, y, { x_px: 160, y_px: 120 })).toBe(0);
+    const marker = arc(160, 120, 81, 0, 5, 90);
+    for (let i = 0; i < 90; i += 3) marker.x[i] = NaN;
+    expect(circularPathScore(marker.x, marker.y, { x_px: 160, y_px: 120 })).toBe(60);
+  });
+});
+
+describe('offCircle and rotorPlaneRadius', () => {
+  it('every point of a tilted view ellipse has the semi-major axis as its rotor-plane radius, and none is off', () => {
+    // ellipse: semi-major 80 px along 30°, axis ratio cos 40° (a rotor tilted 40°)
+    const view = { cx_px: 100, cy_px: 90, axis_ratio: Math.cos((40 * Math.PI) / 180), major_axis_deg: 30 };
+    const phi = (30 * Math.PI) / 180;
+    const xs: number[] = [];
+    const ys: number[] = [];
+    for (let k = 0; k < 72; k++) {
+      const t = (k * 5 * Math.PI) / 180;
+      const along = 80 * Math.cos(t);
+      const across = 80 * view.axis_ratio * Math.sin(t);
+      const u = along * Math.cos(phi) - across * Math.sin(phi);
+      const v = along * Math.sin(phi) + across * Math.cos(phi);
+      xs.push(100 + u);
+      ys.push(90 - v);
+      expect(rotorPlaneRadius(100 + u, 90 - v, view)).toBeCloseTo(80, 9);
+    }
+    const r = offCircle(xs, ys, view);
+    expect(r.median_radius_px).toBeCloseTo(80, 9);
+    expect(Array.from(r.off).every((v) => v === 0)).toBe(true);
+  });
+
+  it('flags the points of a straight drift whose distance from the centre is far from the median, and a stray point on a circle', () => {
+    const view = { cx_px: 160, cy_px: 120, axis_ratio: 1, major_axis_deg: 0 };
+    // a chord passing 40 px from the centre, 200 px long: distances 40 … 108 px
+    const drift = line(60, 80, 2, 0, 101);
+    const r = offCircle(drift.x, drift.y, view);
+    const flagged = r.off.reduce((s, v) => s + v, 0);
+    expect(flagged).toBeGreaterThan(20);
+    const marker = arc(160, 120, 81, 0, 5, 40);
+    marker.x[7] = 160 + 20; // a particle 20 px from the centre
+    marker.y[7] = 120;
+    marker.x[9] = NaN;
+    const m = offCircle(marker.x, marker.y, view);
+    expect(Array.from(m.off).map((v, i) => (v ? i : -1)).filter((i) => i >= 0)).toEqual([7]);
+  });
+});
+
+describe('findSpots at the window edge', () => {
+  it('leaves out a spot cut by the window border (a background corner) but keeps a whole one inside', () => {
+    const w = 60;
+    const h = 60;
+    const img = new Uint8Array(w * h).fill(100);
+    // a bright corner wedge at the top-left (x + y < 8) and a 5×5 spot at 30..34
+    for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) if (x + y < 8) img[y * w + x] = 220;
+    for (let y = 30; y < 35; y++) for (let x = 30; x < 35; x++) img[y * w + x] = 200;
+    const win = { x0: 0, y0: 0, x1: w, y1: h };
+    const kept = findSpots(img, w, win).spots;
+    expect(kept.length).toBe(1);
+    expect(kept[0].x_px).toBeCloseTo(32, 6);
+    expect(kept[0].y_px).toBeCloseTo(32, 6);
+    const all = findSpots(img, w, win, { keep_edge_spots: true }).spots;
+    expect(all.length).toBe(2);
+  });
+});
