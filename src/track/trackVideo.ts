@@ -52,6 +52,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   const mode = parseMarker(options.marker ?? 'bright');
   const header = await probeVideoHeader(path, { ffprobe: options.ffprobe });
   const roi = options.roi !== undefined ? toRegion('--roi', options.roi) : { x: 0, y: 0, w: header.width, h: header.height };
+  const regionWords = options.roi !== undefined ? `--roi ${roi.x},${roi.y},${roi.w},${roi.h}` : `the whole ${roi.w}×${roi.h} frame (no --roi given)`;
   checkInside('--roi', roi, header.width, header.height);
   const anchor = options.anchor !== undefined ? toRegion('--anchor', options.anchor) : null;
   if (anchor) checkInside('--anchor', anchor, header.width, header.height);
@@ -228,9 +229,9 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     for (let i = 0; i < n; i++) if (flag[i] === '') good.push(i);
     if (good.length < 5) {
       if (mode.kind === 'color' && colourSeen === 0) {
-        throw new InputError(`no pixel in --roi ${roi.x},${roi.y},${roi.w},${roi.h} comes within ΔE ${tolerance} of --marker color:${mode.hex.slice(1)}; check the colour (pick it from a frame) or the region`);
+        throw new InputError(`no pixel in ${regionWords} comes within ΔE ${tolerance} of --marker color:${mode.hex.slice(1)}; check the colour (pick it from a frame) or the region`);
       }
-      throw new InputError(`no ${markerWord(mode)} marker was found in --roi ${roi.x},${roi.y},${roi.w},${roi.h} (found in ${good.length} of ${n} frames); check --roi and --marker`);
+      throw new InputError(`no ${markerWord(mode)} marker was found in ${regionWords} (found in ${good.length} of ${n} frames); check --marker, and give --roi around the marker's circle`);
     }
     const gx = Float64Array.from(good, (i) => store.sx[i]);
     const gy = Float64Array.from(good, (i) => store.sy[i]);

@@ -42,7 +42,7 @@ describe('revtrace track', () => {
     for (const [args, pattern] of [
       [['--roi', '300,10,100,100'], /^revtrace: --roi 300,10,100,100 lies outside the 320×240 frame; give x,y,w,h inside it\n$/],
       [['--roi', '40,10,240,220', '--center', '5,5'], /^revtrace: --center 5,5 lies outside --roi/],
-      [['--marker', 'color:#00ff00'], /^revtrace: no pixel in --roi .*color:00ff00/],
+      [['--marker', 'color:#00ff00'], /^revtrace: no pixel in the whole 320×240 frame \(no --roi given\) comes within .*color:00ff00/],
       [['--tilt', 'steep'], /^revtrace: --tilt "steep" is not a number/],
     ] as const) {
       const r = spawnSync(process.execPath, [bin, 'track', video, '--out', out, ...args], { encoding: 'utf8' });

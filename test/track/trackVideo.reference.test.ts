@@ -101,7 +101,7 @@ describe('marker kinds and outputs', () => {
     const clip = await renderClip({ seed: 2, duration_s: 0.5, profile: { kind: 'steady', rate_deg_s: 90 } }, join(dir, 'small.mp4'));
     await expect(trackVideo(clip.videoPath, { roi: { x: 200, y: 10, w: 200, h: 100 } })).rejects.toThrow(/--roi 200,10,200,100 lies outside the 320×240 frame/);
     await expect(trackVideo(clip.videoPath, { roi: { x: 10, y: 10, w: 100, h: 100 }, centre: { x: 200, y: 50 } })).rejects.toThrow(/--center 200,50 lies outside --roi/);
-    await expect(trackVideo(clip.videoPath, { marker: 'color:#00ff00' })).rejects.toThrow(/no pixel in --roi .* color:00ff00/);
+    await expect(trackVideo(clip.videoPath, { marker: 'color:#00ff00' })).rejects.toThrow(/no pixel in the whole 320×240 frame \(no --roi given\) comes within .* color:00ff00/);
     await expect(trackVideo(clip.videoPath, { marker: 'glowing' })).rejects.toThrow(/--marker glowing is not a marker kind/);
     // a region of plain background holds no marker
     await expect(trackVideo(clip.videoPath, { roi: { x: 0, y: 200, w: 60, h: 40 } })).rejects.toThrow(/no bright marker was found in --roi 0,200,60,40/);
