@@ -255,6 +255,10 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
       cy = circle.cy_px;
     }
     const arcAbout = arcCoverage(gx, gy, cx, cy);
+    if (centre) {
+      const off = givenCentreOffset(gx, gy, centre);
+      if (off) warnings.push(`The marker's path is centred near ${off.x_px.toFixed(1)},${off.y_px.toFixed(1)} px, ${off.distance_px.toFixed(1)} px from --center ${centre.x_px},${centre.y_px}; a wrong centre shows up as a false tilt and a wobbling rate, so check --center (or leave it out: this path sweeps enough to fit it).`);
+    }
     const canFit = centre ? arcAbout >= MIN_ARC_CENTRED_DEG : true;
     if (canFit) {
       fit = fitEllipseRobust(gx, gy, centre ? { centre } : {});
@@ -403,6 +407,21 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     signal: options.signal,
   });
   return { series, summary, preview };
+}
+
+/**
+ * Where a path that sweeps enough of its circle (≥ MIN_ARC_FREE_DEG) is centred by itself (circle fit, px), when
+ * that lies more than max(3 px, 3 % of its radius) from the given centre; null otherwise (or too short a path).
+ */
+function givenCentreOffset(x: Float64Array, y: Float64Array, centre: { x_px: number; y_px: number }): { x_px: number; y_px: number; distance_px: number } | null {
+  const stride = Math.max(1, Math.ceil(x.length / 2000));
+  const tx = x.filter((_, k) => k % stride === 0);
+  const ty = y.filter((_, k) => k % stride === 0);
+  if (tx.length < 5) return null;
+  const circle = fitCircle(tx, ty);
+  if (!(arcCoverage(tx, ty, circle.cx_px, circle.cy_px) >= MIN_ARC_FREE_DEG)) return null;
+  const distance_px = Math.hypot(circle.cx_px - centre.x_px, circle.cy_px - centre.y_px);
+  return distance_px > Math.max(3, 0.03 * circle.r_px) ? { x_px: circle.cx_px, y_px: circle.cy_px, distance_px } : null;
 }
 
 /** Up to `most` evenly spaced measured positions of each marker after the first, px (for the preview). */
