@@ -1,6 +1,7 @@
 import { arcCoverage } from './arcCoverage.js';
 import { findSpots, type Window } from './findSpots.js';
 import { fitCircle } from './fitCircle.js';
+import { MarkerPathStore } from './MarkerPathStore.js';
 import { createSpotFollower, type SpotFollower } from './spotFollower.js';
 
 /** Largest number of candidate tracks started at the first frame with spots. */
@@ -10,72 +11,45 @@ const MIN_PATH_RADIUS_PX = 3;
 /** A detection lies on a path when its distance from the centre is within this share of the median distance (allows views tilted up to about 40°). */
 const RADIUS_BAND = 0.25;
 
-/** One candidate marker track: per frame, measured and camera-steadied positions (full-frame px, NaN when lost), quality and flag. */
-export interface CandidateTrack {
-  x_px: number[];
-  y_px: number[];
-  sx_px: number[];
-  sy_px: number[];
-  quality: number[];
-  flag: string[];
-}
-
 /** Full-frame positions of a reading: as measured and with camera motion removed, px. */
 export type PlaceReading = (x_px: number, y_px: number) => { x_px: number; y_px: number; sx_px: number; sy_px: number };
 
 /**
  * Follows every spot of the first frame that has any (the MOST_CANDIDATES biggest), each with its own spot
  * follower started on it, because at that frame there is no motion yet to tell the marker from a passing
- * particle or reflection. After the pass, `pickMarkerTrack` keeps the candidate whose detections move on a
- * circle about the centre. Positions are in the signal image's pixels on input; `place` turns them into full-frame ones.
+ * particle or reflection. The candidates' tracks are the markers of a MarkerPathStore (frames before the
+ * first spot are `lost:no-blob`). After the pass, `pickMarkerTrack` keeps the candidate whose detections move
+ * on a circle about the centre. Positions are in the signal image's pixels on input; `place` turns them into full-frame ones.
  */
 export function createMarkerHypotheses(options: { region: Window }) {
   const followers: SpotFollower[] = [];
-  const tracks: CandidateTrack[] = [];
+  let paths: MarkerPathStore | null = null;
   let frames = 0;
   return {
-    tracks,
+    /** The candidates' tracks, or null while no frame has shown a spot. */
+    get paths(): MarkerPathStore | null {
+      return paths;
+    },
     /** Feeds one frame's signal image (width px per row) at t_s to every candidate. */
     update(signal: Uint8Array, width: number, t_s: number, place: PlaceReading): void {
-      if (followers.length === 0) {
+      if (!paths) {
         const spots = findSpots(signal, width, options.region).spots.slice(0, MOST_CANDIDATES);
-        for (const s of spots) {
-          followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px } }));
-          tracks.push({
-            x_px: Array(frames).fill(NaN), y_px: Array(frames).fill(NaN), sx_px: Array(frames).fill(NaN), sy_px: Array(frames).fill(NaN),
-            quality: Array(frames).fill(0), flag: Array(frames).fill('lost:no-blob'),
-          });
+        if (spots.length > 0) {
+          for (const s of spots) followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px } }));
+          paths = new MarkerPathStore(followers.length);
+          for (let i = 0; i < frames; i++) paths.pushLost('lost:no-blob');
         }
       }
       frames++;
-      if (followers.length === 0) return;
-      for (let k = 0; k < followers.length; k++) {
-        const r = followers[k].update(signal, width, t_s);
-        const p = Number.isFinite(r.x_px) ? place(r.x_px, r.y_px) : { x_px: NaN, y_px: NaN, sx_px: NaN, sy_px: NaN };
-        const c = tracks[k];
-        c.x_px.push(p.x_px);
-        c.y_px.push(p.y_px);
-        c.sx_px.push(p.sx_px);
-        c.sy_px.push(p.sy_px);
-        c.quality.push(r.quality);
-        c.flag.push(r.flag);
-      }
+      if (!paths) return;
+      const readings = followers.map((f) => f.update(signal, width, t_s));
+      const placed = readings.map((r) => (Number.isFinite(r.x_px) ? place(r.x_px, r.y_px) : { x_px: NaN, y_px: NaN, sx_px: NaN, sy_px: NaN }));
+      paths.push(readings, placed, placed.map((p) => ({ x_px: p.sx_px, y_px: p.sy_px })));
     },
     /** Records a frame no candidate could see (e.g. the camera anchor was lost), with this flag. */
     skip(flag: string): void {
       frames++;
-      for (const c of tracks) {
-        c.x_px.push(NaN);
-        c.y_px.push(NaN);
-        c.sx_px.push(NaN);
-        c.sy_px.push(NaN);
-        c.quality.push(0);
-        c.flag.push(flag);
-      }
-    },
-    /** Frames fed so far. */
-    get frames(): number {
-      return frames;
+      paths?.pushLost(flag);
     },
   };
 }
@@ -128,11 +102,11 @@ export function circularPathScore(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
 }
 
 /** Index of the candidate track that best looks like a marker on a circle (circularPathScore of its steadied positions); 0 when there is one. */
-export function pickMarkerTrack(tracks: CandidateTrack[], centre: { x_px: number; y_px: number } | null): number {
+export function pickMarkerTrack(paths: MarkerPathStore, centre: { x_px: number; y_px: number } | null): number {
   let best = 0;
   let bestScore = -1;
-  for (let k = 0; k < tracks.length; k++) {
-    const s = circularPathScore(tracks[k].sx_px, tracks[k].sy_px, centre);
+  for (let k = 0; k < paths.count; k++) {
+    const s = circularPathScore(paths.sx_px[k].subarray(0, paths.n), paths.sy_px[k].subarray(0, paths.n), centre);
     if (s > bestScore) {
       best = k;
       bestScore = s;

@@ -10,7 +10,7 @@ import { applyCameraMotion, createAnchorTracker, removeCameraMotion, type Anchor
 import { createTextureTracker, type TextureTracker } from './textureTracker.js';
 import { arcCoverage } from './arcCoverage.js';
 import { colourSimilarityTable } from './colourDistanceTable.js';
-import { fitCircle } from './fitCircle.js';
+import { fitCircle, type Circle } from './fitCircle.js';
 import { fitEllipseRobust, type RobustEllipseFit } from './fitEllipseRobust.js';
 import { rotorPlaneAngle, wrapDeg, type ViewGeometry } from './rotorPlaneAngle.js';
 import { createMarkerHypotheses, pickMarkerTrack } from './markerHypotheses.js';
@@ -188,16 +188,17 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     throw new TrackingError(`no frames were decoded from ${path} between ${options.from_s ?? 'the start'} and ${options.to_s ?? 'the end'} s; check --from and --to`, path);
   }
   const n = store.n;
-  if (follower && !multi && follower.tracks.length > 0) {
-    const chosen = follower.tracks[pickMarkerTrack(follower.tracks, centre)];
+  const candidates = !multi ? follower?.paths : null;
+  if (candidates) {
+    const k = pickMarkerTrack(candidates, centre);
     for (let i = 0; i < n; i++) {
       if (store.flag[i] === 'lost:camera') continue;
-      store.x[i] = chosen.x_px[i];
-      store.y[i] = chosen.y_px[i];
-      store.sx[i] = chosen.sx_px[i];
-      store.sy[i] = chosen.sy_px[i];
-      store.q[i] = chosen.quality[i];
-      store.flag[i] = chosen.flag[i];
+      store.x[i] = candidates.x_px[k][i];
+      store.y[i] = candidates.y_px[k][i];
+      store.sx[i] = candidates.sx_px[k][i];
+      store.sy[i] = candidates.sy_px[k][i];
+      store.q[i] = candidates.quality[k][i];
+      store.flag[i] = candidates.flag[k][i];
     }
   }
   const t_s = store.t.subarray(0, n);
@@ -241,11 +242,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
       cx = centre.x_px;
       cy = centre.y_px;
     } else {
-      const stride = Math.max(1, Math.ceil(good.length / 2000));
-      const tx = gx.filter((_, k) => k % stride === 0);
-      const ty = gy.filter((_, k) => k % stride === 0);
-      const circle = fitCircle(tx, ty);
-      const arc = arcCoverage(tx, ty, circle.cx_px, circle.cy_px);
+      const { circle, arc_deg: arc } = pathCircle(gx, gy);
       if (!(arc >= MIN_ARC_FREE_DEG)) {
         throw new InputError(
           `the marker swept only ${arc.toFixed(0)}° of its circle, too little to fit the centre and view; give --center x,y (and --tilt deg if the camera is not square to the axis)`,
@@ -409,17 +406,22 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   return { series, summary, preview };
 }
 
+/** The least-squares circle through a marker path (evenly thinned to at most 2000 points, px) and the arc it sweeps about that circle's centre, deg. */
+function pathCircle(x: Float64Array, y: Float64Array): { circle: Circle; arc_deg: number } {
+  const stride = Math.max(1, Math.ceil(x.length / 2000));
+  const tx = x.filter((_, k) => k % stride === 0);
+  const ty = y.filter((_, k) => k % stride === 0);
+  const circle = fitCircle(tx, ty);
+  return { circle, arc_deg: arcCoverage(tx, ty, circle.cx_px, circle.cy_px) };
+}
+
 /**
  * Where a path that sweeps enough of its circle (≥ MIN_ARC_FREE_DEG) is centred by itself (circle fit, px), when
  * that lies more than max(3 px, 3 % of its radius) from the given centre; null otherwise (or too short a path).
  */
 function givenCentreOffset(x: Float64Array, y: Float64Array, centre: { x_px: number; y_px: number }): { x_px: number; y_px: number; distance_px: number } | null {
-  const stride = Math.max(1, Math.ceil(x.length / 2000));
-  const tx = x.filter((_, k) => k % stride === 0);
-  const ty = y.filter((_, k) => k % stride === 0);
-  if (tx.length < 5) return null;
-  const circle = fitCircle(tx, ty);
-  if (!(arcCoverage(tx, ty, circle.cx_px, circle.cy_px) >= MIN_ARC_FREE_DEG)) return null;
+  const { circle, arc_deg } = pathCircle(x, y);
+  if (!(arc_deg >= MIN_ARC_FREE_DEG)) return null;
   const distance_px = Math.hypot(circle.cx_px - centre.x_px, circle.cy_px - centre.y_px);
   return distance_px > Math.max(3, 0.03 * circle.r_px) ? { x_px: circle.cx_px, y_px: circle.cy_px, distance_px } : null;
 }
