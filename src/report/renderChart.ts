@@ -1,10 +1,17 @@
-import * as vega from 'vega';
-import { compile, type TopLevelSpec } from 'vega-lite';
+import type * as Vega from 'vega';
+import type { TopLevelSpec } from 'vega-lite';
 import { CHART_CONFIG } from './reportStyle.js';
+
+/** Vega and Vega-Lite, loaded on the first chart: they take ≈ 150 ms to import, which every other command would pay. */
+let chartLibraries: Promise<{ vega: typeof Vega; compile: typeof import('vega-lite').compile }> | undefined;
+function loadChartLibraries(): Promise<{ vega: typeof Vega; compile: typeof import('vega-lite').compile }> {
+  chartLibraries ??= Promise.all([import('vega'), import('vega-lite')]).then(([vega, vl]) => ({ vega, compile: vl.compile }));
+  return chartLibraries;
+}
 
 let chartCounter = 0;
 /** Parsed Vega runtimes by chart structure (the spec without its data), so charts that differ only in data compile once. */
-const runtimes = new Map<string, vega.Runtime>();
+const runtimes = new Map<string, Vega.Runtime>();
 const MAX_CACHED = 100;
 
 /** Replaces every inline `data: { values }` with a named data set; returns the skeleton and the values by name. */
@@ -31,6 +38,7 @@ function separateData(spec: unknown): { skeleton: unknown; datasets: Map<string,
  * Element ids inside the SVG are made unique so many charts can share one HTML page.
  */
 export async function renderChart(spec: TopLevelSpec): Promise<string> {
+  const { vega, compile } = await loadChartLibraries();
   const { skeleton, datasets } = separateData(spec);
   const key = JSON.stringify(skeleton);
   let runtime = runtimes.get(key);

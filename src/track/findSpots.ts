@@ -34,6 +34,9 @@ export interface FindSpotsOptions {
   keep_edge_spots?: boolean;
 }
 
+/** Working memory reused from call to call (findSpots runs once or more per frame; fresh arrays each time kept the garbage collector busy). */
+const scratch = { hist: new Uint32Array(256), diffHist: new Uint32Array(256), visited: new Uint8Array(0), stack: [] as number[] };
+
 /**
  * Finds spots in a window of a single-channel signal image in which the marker is bright (dark markers
  * and colours are turned into such a signal first). Thresholds come from the window's own histogram, so
@@ -46,8 +49,8 @@ export function findSpots(signal: Uint8Array, width: number, win: Window, option
   const w = win.x1 - win.x0;
   const h = win.y1 - win.y0;
   if (w <= 2 || h <= 2) return { spots: [], contrast: 0, noise: 0 };
-  const hist = new Uint32Array(256);
-  const diffHist = new Uint32Array(256);
+  const hist = scratch.hist.fill(0);
+  const diffHist = scratch.diffHist.fill(0);
   let peak = 0;
   for (let y = win.y0; y < win.y1; y++) {
     const row = y * width;
@@ -69,8 +72,10 @@ export function findSpots(signal: Uint8Array, width: number, win: Window, option
   const seed = background + (options.seed_share ?? 0.5) * contrast;
   const grow = background + (options.grow_share ?? 0.25) * contrast;
   const keepEdge = options.keep_edge_spots ?? false;
-  const visited = new Uint8Array(n);
-  const stack: number[] = [];
+  if (scratch.visited.length < n) scratch.visited = new Uint8Array(n);
+  const visited = scratch.visited.fill(0, 0, n);
+  const stack = scratch.stack;
+  stack.length = 0;
   const spots: Spot[] = [];
   for (let y = win.y0; y < win.y1; y++) {
     for (let x = win.x0; x < win.x1; x++) {

@@ -26,10 +26,10 @@ export function fitEllipse(x_px: ArrayLike<number>, y_px: ArrayLike<number>): El
   const n = x_px.length;
   if (n < 5 || y_px.length !== n) throw new EllipseFitFailure(`an ellipse needs at least 5 points, got ${n}`);
   const { mx, my, s } = normalisation(x_px, y_px);
-  // Scatter blocks: D1 = [x², xy, y²], D2 = [x, y, 1]
-  const S1 = new Matrix(3, 3);
-  const S2 = new Matrix(3, 3);
-  const S3 = new Matrix(3, 3);
+  // Scatter blocks S1 = D1ᵀD1, S2 = D1ᵀD2, S3 = D2ᵀD2 with D1 = [x², xy, y²], D2 = [x, y, 1], summed in plain arrays (row-major 3×3)
+  const s1 = new Float64Array(9);
+  const s2 = new Float64Array(9);
+  const s3 = new Float64Array(9);
   const d1 = [0, 0, 0];
   const d2 = [0, 0, 1];
   for (let i = 0; i < n; i++) {
@@ -42,12 +42,15 @@ export function fitEllipse(x_px: ArrayLike<number>, y_px: ArrayLike<number>): El
     d2[1] = y;
     for (let r = 0; r < 3; r++) {
       for (let c = 0; c < 3; c++) {
-        S1.set(r, c, S1.get(r, c) + d1[r] * d1[c]);
-        S2.set(r, c, S2.get(r, c) + d1[r] * d2[c]);
-        S3.set(r, c, S3.get(r, c) + d2[r] * d2[c]);
+        s1[3 * r + c] += d1[r] * d1[c];
+        s2[3 * r + c] += d1[r] * d2[c];
+        s3[3 * r + c] += d2[r] * d2[c];
       }
     }
   }
+  const S1 = squareMatrix(s1);
+  const S2 = squareMatrix(s2);
+  const S3 = squareMatrix(s3);
   let S3inv: Matrix;
   try {
     S3inv = inverse(S3);
@@ -101,8 +104,8 @@ export function fitCentredEllipse(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
   let s2 = 0;
   for (let i = 0; i < n; i++) s2 += (x_px[i] - cx_px) ** 2 + (y_px[i] - cy_px) ** 2;
   const s = Math.sqrt(s2 / n) || 1;
-  const AtA = new Matrix(3, 3);
-  const Atb = new Matrix(3, 1);
+  const ata = new Float64Array(9);
+  const atb = [0, 0, 0];
   const row = [0, 0, 0];
   for (let i = 0; i < n; i++) {
     const u = (x_px[i] - cx_px) / s;
@@ -111,10 +114,12 @@ export function fitCentredEllipse(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
     row[1] = u * v;
     row[2] = v * v;
     for (let r = 0; r < 3; r++) {
-      Atb.set(r, 0, Atb.get(r, 0) + row[r]);
-      for (let c = 0; c < 3; c++) AtA.set(r, c, AtA.get(r, c) + row[r] * row[c]);
+      atb[r] += row[r];
+      for (let c = 0; c < 3; c++) ata[3 * r + c] += row[r] * row[c];
     }
   }
+  const AtA = squareMatrix(ata);
+  const Atb = Matrix.columnVector(atb);
   let p: number[];
   try {
     p = inverse(AtA).mmul(Atb).to1DArray();
@@ -167,6 +172,11 @@ export function conicToEllipse(A: number, B: number, C: number, D: number, E: nu
   if (deg <= -90) deg += 180;
   if (deg > 90) deg -= 180;
   return { cx_px: cx, cy_px: cy, semi_major_px: Math.sqrt(r1), semi_minor_px: Math.sqrt(r2), major_axis_deg: deg };
+}
+
+/** A 3×3 ml-matrix from nine numbers in row-major order. */
+function squareMatrix(v: Float64Array): Matrix {
+  return new Matrix([[v[0], v[1], v[2]], [v[3], v[4], v[5]], [v[6], v[7], v[8]]]);
 }
 
 function normalisation(x: ArrayLike<number>, y: ArrayLike<number>): { mx: number; my: number; s: number } {

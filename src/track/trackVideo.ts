@@ -109,6 +109,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     to_s: options.to_s,
     signal: options.signal,
     header,
+    reuse_buffers: true, // each frame is reduced to numbers before the next is read
   })) {
     const W = frame.width;
     let gray = frame.data;

@@ -3,6 +3,7 @@ import { PNG } from 'pngjs';
 import { writeFileAtomic } from '../writeFileAtomic.js';
 import type { AngleSeries } from './AngleSeries.js';
 import type { TrackResult } from './trackVideo.js';
+import type { PreviewImage } from './drawPreview.js';
 
 /** Column names of angle.csv, in order. */
 export const ANGLE_CSV_COLUMNS = ['frame', 't_s', 'x_px', 'y_px', 'angle_deg', 'quality', 'flag'] as const;
@@ -23,16 +24,15 @@ export function formatAngleCsv(s: AngleSeries): string {
 
 /** Writes angle.csv, track.json and preview.png into `dir`, each atomically (temporary file, then rename). */
 export async function writeTrackOutputs(dir: string, result: TrackResult): Promise<void> {
-  const png = new PNG({ width: result.preview.width, height: result.preview.height });
-  const rgb = result.preview.rgb;
-  for (let i = 0, j = 0; i < rgb.length; i += 3, j += 4) {
-    png.data[j] = rgb[i];
-    png.data[j + 1] = rgb[i + 1];
-    png.data[j + 2] = rgb[i + 2];
-    png.data[j + 3] = 255;
-  }
   const json = JSON.stringify(result.summary, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v), 2);
   await writeFileAtomic(join(dir, 'angle.csv'), formatAngleCsv(result.series));
   await writeFileAtomic(join(dir, 'track.json'), `${json}\n`);
-  await writeFileAtomic(join(dir, 'preview.png'), PNG.sync.write(png));
+  await writeFileAtomic(join(dir, 'preview.png'), encodePreviewPng(result.preview));
+}
+
+/** The preview as PNG bytes: the RGB pixels go in as they are (no alpha) with one fixed filter (Paeth); pngjs's defaults (RGBA, all five filters tried per row) take ≈ 3× as long. */
+function encodePreviewPng(preview: PreviewImage): Buffer {
+  const { width, height, rgb } = preview;
+  const data = Buffer.from(rgb.buffer, rgb.byteOffset, rgb.byteLength);
+  return PNG.sync.write({ width, height, data } as PNG, { colorType: 2, inputColorType: 2, inputHasAlpha: false, filterType: 4 });
 }

@@ -32,6 +32,12 @@ export interface ReadFramesOptions {
   signal?: AbortSignal;
   /** Header already read with probeVideoHeader (saves one ffprobe run). */
   header?: VideoHeader;
+  /**
+   * Two pixel buffers take turns instead of a new one per frame (default false): a frame's `data` is then
+   * overwritten once the frame after the next is being filled, so keep no frame beyond the next step of the
+   * loop. For consumers that reduce each frame to numbers; it spares the garbage collector a frame's worth of memory per frame.
+   */
+  reuse_buffers?: boolean;
 }
 
 /** Matches the per-frame line of ffmpeg's showinfo filter: "n: 12 pts: 480000 ...". */
@@ -129,6 +135,7 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
   // view over an unpooled, uninitialised ArrayBuffer).
   const newFrame = (): Uint8Array => { const b = Buffer.allocUnsafeSlow(frameBytes); return new Uint8Array(b.buffer, b.byteOffset, frameBytes); };
   let frame = newFrame();
+  let spare = options.reuse_buffers ? newFrame() : null;
   let filled = 0;
   const run = runTool(ffmpeg.path, args, { tool: 'ffmpeg', file: path, signal: options.signal, onStderrLine, onStderrEnd });
   try {
@@ -148,7 +155,11 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
         }
         decoded += 1;
         const data = frame;
-        frame = newFrame();
+        if (spare) {
+          // the buffer yielded two frames ago is free again (its consumer has moved on)
+          frame = spare;
+          spare = data;
+        } else frame = newFrame();
         filled = 0;
         if (t_s < from_s) continue;
         if (t_s >= to_s) return;

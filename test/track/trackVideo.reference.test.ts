@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdtemp, readFile, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -94,6 +94,9 @@ describe('marker kinds and outputs', () => {
       expect(json.settings.marker).toBe(kind === 'dark' ? 'dark' : 'color:#dc2828');
       const png = PNG.sync.read(await readFile(join(out, 'preview.png')));
       expect([png.width, png.height]).toEqual([320, 240]);
+      // the file holds exactly the drawn pixels: decoded by ffmpeg's own PNG decoder (a second, independent reader)
+      const decoded = execFileSync(ffmpeg, ['-hide_banner', '-loglevel', 'error', '-i', join(out, 'preview.png'), '-f', 'rawvideo', '-pix_fmt', 'rgb24', '-'], { maxBuffer: 1 << 24 });
+      expect(Buffer.compare(decoded, Buffer.from(result.preview.rgb))).toBe(0);
     }
   });
 
