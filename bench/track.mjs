@@ -1,4 +1,4 @@
-// Tracking benchmark: `trackVideo` (+ writing its outputs) on a 1080p60 H.264 clip with a 480×480 region,
+// Tracking benchmark: `revtrace track` (the CLI command, in a child process) on a 1080p60 H.264 clip with a 480×480 region,
 // beside bare ffmpeg decode + crop of the same file in the same script (wall-time ratio), and the peak
 // memory of tracking a 1-minute and a 10-minute clip. Run after `npm run build`: node bench/track.mjs [--long]
 // Clips come from ffmpeg's lavfi sources (a `geq` disc with a spot, turned by `rotate`, over a noisy
@@ -14,12 +14,13 @@ const out = join(here, 'out');
 const ROI = { x: 720, y: 300, w: 480, h: 480 };
 
 if (process.argv[2] === '--run') {
-  // child: track one clip, print wall time and peak RSS of this process
-  const { trackVideo, writeTrackOutputs } = await import('../dist/index.js');
+  // child: `revtrace track` as a person runs it (the CLI's own imports included), then its wall time and peak RSS
+  const { main } = await import('../dist/cli/main.js');
+  const { readFileSync } = await import('node:fs');
   const t0 = performance.now();
-  const result = await trackVideo(process.argv[3], { roi: ROI });
-  await writeTrackOutputs(process.argv[4], result);
-  const s = result.summary;
+  const code = await main(['node', 'revtrace', 'track', process.argv[3], '--roi', `${ROI.x},${ROI.y},${ROI.w},${ROI.h}`, '--out', process.argv[4], '--quiet']);
+  if (code !== 0) process.exit(code);
+  const s = JSON.parse(readFileSync(join(process.argv[4], 'track.json'), 'utf8'));
   console.log(JSON.stringify({
     wall_s: (performance.now() - t0) / 1000,
     maxRSS_MB: process.resourceUsage().maxRSS / 1024,
@@ -71,7 +72,7 @@ function bare(file) {
   });
 }
 
-/** Tracking in a child node process (startup, probe, decode, track, fit, hash, preview, writes); wall seconds + child's numbers. */
+/** `revtrace track` in a child node process (startup, imports, probe, decode, track, fit, hash, preview, writes); wall seconds + child's numbers. */
 function track(file) {
   const dir = join(out, 'track-out');
   rmSync(dir, { recursive: true, force: true });

@@ -1,8 +1,6 @@
 import type { Command } from 'commander';
-import { createBatchDisplay, type DisplayMode } from '../batch/batchDisplay.js';
-import { runBatch } from '../batch/runBatch.js';
+import type { DisplayMode } from '../batch/batchDisplay.js';
 import { parseShard } from '../batch/shard.js';
-import { writeReport } from '../report/writeReport.js';
 import { globalOptions } from './globalOptions.js';
 import { parseJobs } from './parseJobs.js';
 
@@ -30,6 +28,7 @@ export function registerBatch(program: Command): void {
     .option('--quiet', 'print only failures and the final line')
     .option('--json', 'print one JSON object per event on stdout')
     .action(async (manifest: string, o: BatchCliOptions, command: Command) => {
+      const [{ runBatch }, { writeReport }, { createBatchDisplay }] = await Promise.all([import('../batch/runBatch.js'), import('../report/writeReport.js'), import('../batch/batchDisplay.js')]);
       const g = globalOptions(command);
       const jobs = parseJobs(o.jobs);
       const shard = o.shard !== undefined ? parseShard(o.shard) : null;

@@ -1,7 +1,4 @@
 import type { Command } from 'commander';
-import { createBatchDisplay } from '../batch/batchDisplay.js';
-import { runDemo } from '../demo/runDemo.js';
-import { demoSummaryTable } from '../demo/demoSummaryTable.js';
 import { globalOptions } from './globalOptions.js';
 import { parseJobs } from './parseJobs.js';
 
@@ -14,6 +11,7 @@ export function registerDemo(program: Command): void {
     .option('--quick', 'a reduced day: fewer, shorter, smaller clips')
     .option('--jobs <n>', 'runs processed at once (default: one per core)')
     .action(async (o: { out: string; quick?: boolean; jobs?: string }, command: Command) => {
+      const [{ runDemo }, { demoSummaryTable }, { createBatchDisplay }] = await Promise.all([import('../demo/runDemo.js'), import('../demo/demoSummaryTable.js'), import('../batch/batchDisplay.js')]);
       const g = globalOptions(command);
       const jobs = parseJobs(o.jobs);
       const started = Date.now();

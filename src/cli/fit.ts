@@ -1,7 +1,5 @@
 import type { Command } from 'commander';
-import { readAngleTable } from '../fit/readAngleTable.js';
-import { fitAngleSeries, type FitModelOption } from '../fit/fitAngleSeries.js';
-import { writeFitOutputs } from '../fit/writeFitOutputs.js';
+import type { FitModelOption } from '../fit/fitAngleSeries.js';
 import type { Estimate, FitReport } from '../fit/FitReport.js';
 import { dirname } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
@@ -65,6 +63,7 @@ export function registerFit(program: Command): void {
     .option('--margin <deg_s>', 'equivalence margin for the zero test, deg/s (adds a TOST equivalence test)')
     .option('--seed <n>', 'seed of the nonlinear fits\' bootstrap', '1')
     .action(async (anglePath: string, o: FitCliOptions) => {
+      const [{ readAngleTable }, { fitAngleSeries }, { writeFitOutputs }] = await Promise.all([import('../fit/readAngleTable.js'), import('../fit/fitAngleSeries.js'), import('../fit/writeFitOutputs.js')]);
       if (!['steady', 'spinup', 'spindown', 'auto'].includes(o.model)) {
         throw new InputError(`--model must be steady, spinup, spindown or auto, got "${o.model}"`);
       }

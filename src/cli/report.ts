@@ -3,8 +3,6 @@ import { stat } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
-import { rebuildSummary } from '../batch/rebuildSummary.js';
-import { writeReport } from '../report/writeReport.js';
 
 interface ReportCliOptions {
   out?: string;
@@ -22,6 +20,7 @@ export function registerReport(program: Command): void {
     .option('--title <text>', 'report title (default names the manifest)')
     .option('--margin <deg_s>', 'equivalence margin in deg/s for "the reverse direction does not turn" (default: the margin the runs were fitted with)')
     .action(async (dir: string, o: ReportCliOptions) => {
+      const [{ rebuildSummary }, { writeReport }] = await Promise.all([import('../batch/rebuildSummary.js'), import('../report/writeReport.js')]);
       let isDir = false;
       try {
         isDir = (await stat(join(dir, 'runs'))).isDirectory();

@@ -4,7 +4,6 @@ import { dirname } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 import { anchorRegion } from '../synth/anchorRegion.js';
-import { renderClip } from '../synth/renderClip.js';
 import type { SynthMarkerInput, SynthSpecInput } from '../synth/SynthSpec.js';
 import { resolveSynthSpec } from '../synth/SynthSpec.js';
 import { globalOptions } from './globalOptions.js';
@@ -237,6 +236,7 @@ export function registerSynth(program: Command): void {
     .option('--drop <slots>', 'leave out these nominal frame slots, comma-separated (e.g. 12,40)')
     .option('--quiet', 'print nothing on success')
     .action(async (o: SynthCliOptions, command: Command) => {
+      const { renderClip } = await import('../synth/renderClip.js');
       const g = globalOptions(command);
       const base = o.spec !== undefined ? await readSpecFile(o.spec) : {};
       const spec = resolveSynthSpec(mergeSpec(base, optionsToSpec(o)));

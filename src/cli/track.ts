@@ -1,9 +1,7 @@
 import type { Command } from 'commander';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
-import { trackVideo } from '../track/trackVideo.js';
 import { toRegion } from '../track/TrackOptions.js';
-import { writeTrackOutputs } from '../track/writeTrackOutputs.js';
 import { globalOptions } from './globalOptions.js';
 
 interface TrackCliOptions {
@@ -53,6 +51,8 @@ export function registerTrack(program: Command): void {
     .option('--tilt <deg>', 'camera tilt from square-on, degrees (for runs too short to fit the view)')
     .option('--quiet', 'print nothing but errors (progress is shown only on a terminal)')
     .action(async (video: string, o: TrackCliOptions, command: Command) => {
+      // the stage is loaded when the command runs, so other commands (and --help) do not pay for its imports
+      const [{ trackVideo }, { writeTrackOutputs }] = await Promise.all([import('../track/trackVideo.js'), import('../track/writeTrackOutputs.js')]);
       const g = globalOptions(command);
       let centre: { x_px: number; y_px: number } | undefined;
       if (o.center !== undefined) {

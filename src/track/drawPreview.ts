@@ -31,22 +31,18 @@ const GREEN: [number, number, number] = [60, 230, 60];
 const RED: [number, number, number] = [255, 40, 40];
 const MAGENTA: [number, number, number] = [255, 0, 200];
 
-/**
- * The first frame of the run (full frame, decoded once more), with the region (yellow), the anchor (cyan),
- * the fitted marker path (green), a sample of detections (magenta) and the centre (red cross) drawn on it.
- */
-export async function drawPreview(path: string, o: PreviewOptions): Promise<PreviewImage> {
-  let image: PreviewImage | null = null;
+/** The first frame of the run (full frame, RGB, decoded on its own), or a black frame when none is decoded. */
+export async function readPreviewFrame(path: string, o: Pick<PreviewOptions, 'header' | 'ffmpeg' | 'ffprobe' | 'from_s' | 'signal'>): Promise<PreviewImage> {
   for await (const frame of readFrames(path, { ffmpeg: o.ffmpeg, ffprobe: o.ffprobe, pixels: 'rgb', from_s: o.from_s, header: o.header, signal: o.signal })) {
-    image = { width: frame.width, height: frame.height, rgb: Uint8Array.from(frame.data) };
-    break;
+    return { width: frame.width, height: frame.height, rgb: Uint8Array.from(frame.data) };
   }
-  image ??= { width: o.header.width, height: o.header.height, rgb: new Uint8Array(o.header.width * o.header.height * 3) };
-  markPreview(image, o);
-  return image;
+  return { width: o.header.width, height: o.header.height, rgb: new Uint8Array(o.header.width * o.header.height * 3) };
 }
 
-/** Draws the set-up marks onto an RGB image in place. */
+/**
+ * Draws the set-up marks onto an RGB image in place: the region (yellow), the anchor (cyan), the fitted marker
+ * path (green), a sample of detections (magenta) and the centre (red cross).
+ */
 export function markPreview(img: PreviewImage, o: Pick<PreviewOptions, 'roi' | 'anchor' | 'view' | 'centre' | 'detections' | 'other_markers'>): void {
   rect(img, o.roi, YELLOW);
   if (o.anchor) rect(img, o.anchor, CYAN);

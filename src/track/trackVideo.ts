@@ -22,7 +22,7 @@ import { checkInside, parseMarker, toRegion, type MarkerMode, type RegionPx, typ
 import { TrackingError } from './TrackingError.js';
 import { givenQuantity, viewFromPathFit, viewWithoutPathFit } from './viewFromPathFit.js';
 import { unwrapAngles } from './unwrapAngles.js';
-import { drawPreview, type PreviewImage } from './drawPreview.js';
+import { markPreview, readPreviewFrame, type PreviewImage } from './drawPreview.js';
 
 export type { TrackOptions, RegionPx } from './TrackOptions.js';
 
@@ -100,311 +100,319 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   let shiftSs = 0;
   let motionCount = 0;
 
-  for await (const frame of readFrames(path, {
-    ffmpeg: options.ffmpeg,
-    ffprobe: options.ffprobe,
-    pixels: mode.kind === 'color' ? 'rgb' : 'gray',
-    roi: crop,
-    from_s: options.from_s,
-    to_s: options.to_s,
-    signal: options.signal,
-    header,
-    reuse_buffers: true, // each frame is reduced to numbers before the next is read
-  })) {
-    const W = frame.width;
-    let gray = frame.data;
-    if (frame.channels === 3) {
-      grayBuf ??= new Uint8Array(W * frame.height);
-      const d = frame.data;
-      for (let i = 0, j = 0; i < grayBuf.length; i++, j += 3) grayBuf[i] = (77 * d[j] + 150 * d[j + 1] + 29 * d[j + 2]) >> 8;
-      gray = grayBuf;
-    }
-    let motion = { dx_px: 0, dy_px: 0, rotation_deg: 0, quality: 1 };
-    if (anchorTracker) {
-      motion = anchorTracker.update({ data: gray, width: W, height: frame.height, origin_x_px: crop.x, origin_y_px: crop.y });
-      if (Number.isFinite(motion.dx_px)) {
-        const s = Math.hypot(motion.dx_px, motion.dy_px);
-        shiftMax = Math.max(shiftMax, s);
-        rotMax = Math.max(rotMax, Math.abs(motion.rotation_deg));
-        shiftSs += s * s;
-        motionCount++;
-      }
-    }
-    if (anchorTracker && !Number.isFinite(motion.dx_px)) {
-      store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:camera');
-      multi?.paths.pushLost('lost:camera');
-      if (!multi) follower?.skip('lost:camera');
-    } else if (texture && centre) {
-      let offset: { dx_px: number; dy_px: number } | undefined;
-      if (anchorTracker) {
-        const moved = applyCameraMotion(centre, motion, anchorTracker.pivot);
-        offset = { dx_px: moved.x_px - centre.x_px, dy_px: moved.y_px - centre.y_px };
-      }
-      const r = texture.update({ data: gray, width: W, height: frame.height, origin_x_px: crop.x, origin_y_px: crop.y }, offset);
-      const a = r.angle_deg - (anchorTracker ? motion.rotation_deg : 0);
-      store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, a, r.quality, Number.isFinite(a) ? '' : 'lost:texture');
-    } else if (follower) {
-      let signal: Uint8Array;
-      if (mode.kind === 'bright') {
-        signal = gray;
-      } else {
-        signalBuf ??= new Uint8Array(W * frame.height);
-        signal = signalBuf;
+  // The preview frame and the file's hash are read beside the decoding pass (they are cheap, but were
+  // time added after it); both stop when tracking fails or the caller aborts.
+  const side = new AbortController();
+  const sideSignal = options.signal ? AbortSignal.any([options.signal, side.signal]) : side.signal;
+  const previewFrame = readPreviewFrame(path, { header, ffmpeg: options.ffmpeg, ffprobe: options.ffprobe, from_s: options.from_s, signal: sideSignal });
+  const hashing = hashFile(path, { signal: sideSignal });
+  previewFrame.catch(() => undefined); // awaited below; this only keeps a failure from going unhandled when tracking fails first
+  hashing.catch(() => undefined);
+  try {
+    for await (const frame of readFrames(path, {
+      ffmpeg: options.ffmpeg,
+      ffprobe: options.ffprobe,
+      pixels: mode.kind === 'color' ? 'rgb' : 'gray',
+      roi: crop,
+      from_s: options.from_s,
+      to_s: options.to_s,
+      signal: options.signal,
+      header,
+      reuse_buffers: true, // each frame is reduced to numbers before the next is read
+    })) {
+      const W = frame.width;
+      let gray = frame.data;
+      if (frame.channels === 3) {
+        grayBuf ??= new Uint8Array(W * frame.height);
         const d = frame.data;
-        for (let y = region.y0; y < region.y1; y++) {
-          for (let x = region.x0, i = y * W + region.x0; x < region.x1; x++, i++) {
-            if (colourTable) {
-              const j = 3 * i;
-              const v = colourTable[((d[j] >> 2) << 12) | ((d[j + 1] >> 2) << 6) | (d[j + 2] >> 2)];
-              signal[i] = v;
-              if (v > 0) colourSeen++;
-            } else {
-              signal[i] = 255 - d[i];
+        for (let i = 0, j = 0; i < grayBuf.length; i++, j += 3) grayBuf[i] = (77 * d[j] + 150 * d[j + 1] + 29 * d[j + 2]) >> 8;
+        gray = grayBuf;
+      }
+      let motion = { dx_px: 0, dy_px: 0, rotation_deg: 0, quality: 1 };
+      if (anchorTracker) {
+        motion = anchorTracker.update({ data: gray, width: W, height: frame.height, origin_x_px: crop.x, origin_y_px: crop.y });
+        if (Number.isFinite(motion.dx_px)) {
+          const s = Math.hypot(motion.dx_px, motion.dy_px);
+          shiftMax = Math.max(shiftMax, s);
+          rotMax = Math.max(rotMax, Math.abs(motion.rotation_deg));
+          shiftSs += s * s;
+          motionCount++;
+        }
+      }
+      if (anchorTracker && !Number.isFinite(motion.dx_px)) {
+        store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:camera');
+        multi?.paths.pushLost('lost:camera');
+        if (!multi) follower?.skip('lost:camera');
+      } else if (texture && centre) {
+        let offset: { dx_px: number; dy_px: number } | undefined;
+        if (anchorTracker) {
+          const moved = applyCameraMotion(centre, motion, anchorTracker.pivot);
+          offset = { dx_px: moved.x_px - centre.x_px, dy_px: moved.y_px - centre.y_px };
+        }
+        const r = texture.update({ data: gray, width: W, height: frame.height, origin_x_px: crop.x, origin_y_px: crop.y }, offset);
+        const a = r.angle_deg - (anchorTracker ? motion.rotation_deg : 0);
+        store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, a, r.quality, Number.isFinite(a) ? '' : 'lost:texture');
+      } else if (follower) {
+        let signal: Uint8Array;
+        if (mode.kind === 'bright') {
+          signal = gray;
+        } else {
+          signalBuf ??= new Uint8Array(W * frame.height);
+          signal = signalBuf;
+          const d = frame.data;
+          for (let y = region.y0; y < region.y1; y++) {
+            for (let x = region.x0, i = y * W + region.x0; x < region.x1; x++, i++) {
+              if (colourTable) {
+                const j = 3 * i;
+                const v = colourTable[((d[j] >> 2) << 12) | ((d[j + 1] >> 2) << 6) | (d[j + 2] >> 2)];
+                signal[i] = v;
+                if (v > 0) colourSeen++;
+              } else {
+                signal[i] = 255 - d[i];
+              }
             }
           }
         }
+        if (multi) {
+          const readings = multi.followers.update(signal, W, frame.t_s);
+          const measured = readings.map((r) => ({ x_px: r.x_px + crop.x, y_px: r.y_px + crop.y }));
+          const steadied = anchorTracker ? measured.map((p) => (Number.isFinite(p.x_px) ? removeCameraMotion(p, motion, anchorTracker.pivot) : p)) : measured;
+          multi.paths.push(readings, measured, steadied);
+          const f = multi.paths.frameOf(multi.paths.n - 1);
+          store.push(frame.index, frame.t_s, measured[0].x_px, measured[0].y_px, steadied[0].x_px, steadied[0].y_px, NaN, f.quality, f.flag);
+          if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
+          continue;
+        }
+        // candidate tracks are kept for the whole pass; the marker's is chosen afterwards
+        follower.update(signal, W, frame.t_s, (x_px, y_px) => {
+          const x = x_px + crop.x;
+          const y = y_px + crop.y;
+          const p = anchorTracker ? removeCameraMotion({ x_px: x, y_px: y }, motion, anchorTracker.pivot) : { x_px: x, y_px: y };
+          return { x_px: x, y_px: y, sx_px: p.x_px, sy_px: p.y_px };
+        });
+        store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:no-blob');
       }
-      if (multi) {
-        const readings = multi.followers.update(signal, W, frame.t_s);
-        const measured = readings.map((r) => ({ x_px: r.x_px + crop.x, y_px: r.y_px + crop.y }));
-        const steadied = anchorTracker ? measured.map((p) => (Number.isFinite(p.x_px) ? removeCameraMotion(p, motion, anchorTracker.pivot) : p)) : measured;
-        multi.paths.push(readings, measured, steadied);
-        const f = multi.paths.frameOf(multi.paths.n - 1);
-        store.push(frame.index, frame.t_s, measured[0].x_px, measured[0].y_px, steadied[0].x_px, steadied[0].y_px, NaN, f.quality, f.flag);
-        if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
-        continue;
+      if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
+    }
+    if (store.n === 0) {
+      throw new TrackingError(`no frames were decoded from ${path} between ${options.from_s ?? 'the start'} and ${options.to_s ?? 'the end'} s; check --from and --to`, path);
+    }
+    const n = store.n;
+    const candidates = !multi ? follower?.paths : null;
+    if (candidates) {
+      const k = pickMarkerTrack(candidates, centre);
+      for (let i = 0; i < n; i++) {
+        if (store.flag[i] === 'lost:camera') continue;
+        store.x[i] = candidates.x_px[k][i];
+        store.y[i] = candidates.y_px[k][i];
+        store.sx[i] = candidates.sx_px[k][i];
+        store.sy[i] = candidates.sy_px[k][i];
+        store.q[i] = candidates.quality[k][i];
+        store.flag[i] = candidates.flag[k][i];
       }
-      // candidate tracks are kept for the whole pass; the marker's is chosen afterwards
-      follower.update(signal, W, frame.t_s, (x_px, y_px) => {
-        const x = x_px + crop.x;
-        const y = y_px + crop.y;
-        const p = anchorTracker ? removeCameraMotion({ x_px: x, y_px: y }, motion, anchorTracker.pivot) : { x_px: x, y_px: y };
-        return { x_px: x, y_px: y, sx_px: p.x_px, sy_px: p.y_px };
-      });
-      store.push(frame.index, frame.t_s, NaN, NaN, NaN, NaN, NaN, 0, 'lost:no-blob');
     }
-    if (options.onProgress && store.n % 10 === 0) options.onProgress({ frames: store.n, t_s: frame.t_s, duration_s });
-  }
-  if (store.n === 0) {
-    throw new TrackingError(`no frames were decoded from ${path} between ${options.from_s ?? 'the start'} and ${options.to_s ?? 'the end'} s; check --from and --to`, path);
-  }
-  const n = store.n;
-  const candidates = !multi ? follower?.paths : null;
-  if (candidates) {
-    const k = pickMarkerTrack(candidates, centre);
-    for (let i = 0; i < n; i++) {
-      if (store.flag[i] === 'lost:camera') continue;
-      store.x[i] = candidates.x_px[k][i];
-      store.y[i] = candidates.y_px[k][i];
-      store.sx[i] = candidates.sx_px[k][i];
-      store.sy[i] = candidates.sy_px[k][i];
-      store.q[i] = candidates.quality[k][i];
-      store.flag[i] = candidates.flag[k][i];
-    }
-  }
-  const t_s = store.t.subarray(0, n);
-  const quality = store.q.subarray(0, n);
-  const flag = store.flag;
+    const t_s = store.t.subarray(0, n);
+    const quality = store.q.subarray(0, n);
+    const flag = store.flag;
 
-  // ---- geometry ----
-  let view: ViewGeometry | null = null;
-  let viewSummary: TrackSummary['view'] = null;
-  let centreSummary: TrackSummary['centre'];
-  let fit: RobustEllipseFit | null = null;
-  const wrapped = new Float64Array(n).fill(NaN);
-  let maxCorrection = 0;
-  let multiSummary: Pick<TrackSummary, 'markers' | 'path_fit'> | null = null;
-  if (mode.kind === 'texture') {
-    const c = texture!.centre_px;
-    centreSummary = { x_px: givenQuantity(c.x_px), y_px: givenQuantity(c.y_px), source: 'given' };
-    for (let i = 0; i < n; i++) wrapped[i] = Number.isFinite(store.a[i]) ? wrapDeg(store.a[i]) : NaN;
-  } else if (multi) {
-    const g = multiMarkerGeometry({
-      store: multi.paths, t_s, frame_number: store.frame, frame: { flag, quality, x_px: store.x, y_px: store.y }, centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg,
-      roi_text: `${roi.x},${roi.y},${roi.w},${roi.h}`, marker_text: markerWord(mode), warnings,
-    });
-    ({ view, view_summary: viewSummary, centre_summary: centreSummary } = g);
-    wrapped.set(g.wrapped_deg);
-    multiSummary = { markers: g.markers, path_fit: g.path_fit ?? undefined };
-  } else {
-    const good: number[] = [];
-    for (let i = 0; i < n; i++) if (flag[i] === '') good.push(i);
-    if (good.length < 5) {
-      if (mode.kind === 'color' && colourSeen === 0) {
-        throw new InputError(`no pixel in ${regionWords} comes within ΔE ${tolerance} of --marker color:${mode.hex.slice(1)}; check the colour (pick it from a frame) or the region`);
-      }
-      throw new InputError(`no ${markerWord(mode)} marker was found in ${regionWords} (found in ${good.length} of ${n} frames); check --marker, and give --roi around the marker's circle`);
-    }
-    const gx = Float64Array.from(good, (i) => store.sx[i]);
-    const gy = Float64Array.from(good, (i) => store.sy[i]);
-    let cx: number;
-    let cy: number;
-    if (centre) {
-      cx = centre.x_px;
-      cy = centre.y_px;
+    // ---- geometry ----
+    let view: ViewGeometry | null = null;
+    let viewSummary: TrackSummary['view'] = null;
+    let centreSummary: TrackSummary['centre'];
+    let fit: RobustEllipseFit | null = null;
+    const wrapped = new Float64Array(n).fill(NaN);
+    let maxCorrection = 0;
+    let multiSummary: Pick<TrackSummary, 'markers' | 'path_fit'> | null = null;
+    if (mode.kind === 'texture') {
+      const c = texture!.centre_px;
+      centreSummary = { x_px: givenQuantity(c.x_px), y_px: givenQuantity(c.y_px), source: 'given' };
+      for (let i = 0; i < n; i++) wrapped[i] = Number.isFinite(store.a[i]) ? wrapDeg(store.a[i]) : NaN;
+    } else if (multi) {
+      const g = multiMarkerGeometry({
+        store: multi.paths, t_s, frame_number: store.frame, frame: { flag, quality, x_px: store.x, y_px: store.y }, centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg,
+        roi_text: `${roi.x},${roi.y},${roi.w},${roi.h}`, marker_text: markerWord(mode), warnings,
+      });
+      ({ view, view_summary: viewSummary, centre_summary: centreSummary } = g);
+      wrapped.set(g.wrapped_deg);
+      multiSummary = { markers: g.markers, path_fit: g.path_fit ?? undefined };
     } else {
-      const { circle, arc_deg: arc } = pathCircle(gx, gy);
-      if (!(arc >= MIN_ARC_FREE_DEG)) {
-        throw new InputError(
-          `the marker swept only ${arc.toFixed(0)}° of its circle, too little to fit the centre and view; give --center x,y (and --tilt deg if the camera is not square to the axis)`,
-        );
+      const good: number[] = [];
+      for (let i = 0; i < n; i++) if (flag[i] === '') good.push(i);
+      if (good.length < 5) {
+        if (mode.kind === 'color' && colourSeen === 0) {
+          throw new InputError(`no pixel in ${regionWords} comes within ΔE ${tolerance} of --marker color:${mode.hex.slice(1)}; check the colour (pick it from a frame) or the region`);
+        }
+        throw new InputError(`no ${markerWord(mode)} marker was found in ${regionWords} (found in ${good.length} of ${n} frames); check --marker, and give --roi around the marker's circle`);
       }
-      cx = circle.cx_px;
-      cy = circle.cy_px;
-    }
-    const arcAbout = arcCoverage(gx, gy, cx, cy);
-    if (centre) {
-      const off = givenCentreOffset(gx, gy, centre);
-      if (off) warnings.push(`The marker's path is centred near ${off.x_px.toFixed(1)},${off.y_px.toFixed(1)} px, ${off.distance_px.toFixed(1)} px from --center ${centre.x_px},${centre.y_px}; a wrong centre shows up as a false tilt and a wobbling rate, so check --center (or leave it out: this path sweeps enough to fit it).`);
-    }
-    const canFit = centre ? arcAbout >= MIN_ARC_CENTRED_DEG : true;
-    if (canFit) {
-      fit = fitEllipseRobust(gx, gy, centre ? { centre } : {});
-      // frames far off the fitted path are not trusted
-      for (let k = 0; k < good.length; k++) {
-        if (!fit.inlier[k]) {
-          const i = good[k];
-          flag[i] = 'lost:off-path';
-          quality[i] = 0;
+      const gx = Float64Array.from(good, (i) => store.sx[i]);
+      const gy = Float64Array.from(good, (i) => store.sy[i]);
+      let cx: number;
+      let cy: number;
+      if (centre) {
+        cx = centre.x_px;
+        cy = centre.y_px;
+      } else {
+        const { circle, arc_deg: arc } = pathCircle(gx, gy);
+        if (!(arc >= MIN_ARC_FREE_DEG)) {
+          throw new InputError(
+            `the marker swept only ${arc.toFixed(0)}° of its circle, too little to fit the centre and view; give --center x,y (and --tilt deg if the camera is not square to the axis)`,
+          );
+        }
+        cx = circle.cx_px;
+        cy = circle.cy_px;
+      }
+      const arcAbout = arcCoverage(gx, gy, cx, cy);
+      if (centre) {
+        const off = givenCentreOffset(gx, gy, centre);
+        if (off) warnings.push(`The marker's path is centred near ${off.x_px.toFixed(1)},${off.y_px.toFixed(1)} px, ${off.distance_px.toFixed(1)} px from --center ${centre.x_px},${centre.y_px}; a wrong centre shows up as a false tilt and a wobbling rate, so check --center (or leave it out: this path sweeps enough to fit it).`);
+      }
+      const canFit = centre ? arcAbout >= MIN_ARC_CENTRED_DEG : true;
+      if (canFit) {
+        fit = fitEllipseRobust(gx, gy, centre ? { centre } : {});
+        // frames far off the fitted path are not trusted
+        for (let k = 0; k < good.length; k++) {
+          if (!fit.inlier[k]) {
+            const i = good[k];
+            flag[i] = 'lost:off-path';
+            quality[i] = 0;
+          }
+        }
+        const e = fit.ellipse;
+        ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewFromPathFit(
+          { ellipse: e, axis_ratio: e.semi_minor_px / e.semi_major_px, se: fit.se, ci95: fit.ci95 },
+          { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg },
+        ));
+      } else {
+        ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewWithoutPathFit(
+          cx, cy, { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg }, arcAbout, 'The marker', warnings,
+        ));
+      }
+      // a marker keeps its distance from the axis; a drifting particle or a corner of the region does not
+      const kept = good.filter((i) => flag[i] === '');
+      const { off } = offCircle(Float64Array.from(kept, (i) => store.sx[i]), Float64Array.from(kept, (i) => store.sy[i]), view);
+      let offCount = 0;
+      for (let k = 0; k < kept.length; k++) {
+        if (off[k]) {
+          flag[kept[k]] = 'lost:off-path';
+          quality[kept[k]] = 0;
+          offCount++;
         }
       }
-      const e = fit.ellipse;
-      ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewFromPathFit(
-        { ellipse: e, axis_ratio: e.semi_minor_px / e.semi_major_px, se: fit.se, ci95: fit.ci95 },
-        { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg },
-      ));
-    } else {
-      ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewWithoutPathFit(
-        cx, cy, { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg }, arcAbout, 'The marker', warnings,
-      ));
+      if (offCount > OFF_CIRCLE_WARN_SHARE * kept.length) {
+        warnings.push(
+          `${((100 * offCount) / kept.length).toFixed(0)}% of the marker detections lie off a circle about the centre ${view.cx_px.toFixed(1)},${view.cy_px.toFixed(1)}, so the follower may have followed something else (a drifting particle, a reflection, an edge); check preview.png, --roi and --center.`,
+        );
+      }
+      const plain: ViewGeometry = { cx_px: view.cx_px, cy_px: view.cy_px, axis_ratio: 1, major_axis_deg: 0 };
+      for (let i = 0; i < n; i++) {
+        if (flag[i] !== '') continue;
+        wrapped[i] = rotorPlaneAngle(store.sx[i], store.sy[i], view);
+        const raw = rotorPlaneAngle(store.sx[i], store.sy[i], plain);
+        maxCorrection = Math.max(maxCorrection, Math.abs(wrapDeg(wrapped[i] - raw)));
+      }
+      if (viewSummary) viewSummary.max_correction_deg = maxCorrection;
     }
-    // a marker keeps its distance from the axis; a drifting particle or a corner of the region does not
-    const kept = good.filter((i) => flag[i] === '');
-    const { off } = offCircle(Float64Array.from(kept, (i) => store.sx[i]), Float64Array.from(kept, (i) => store.sy[i]), view);
-    let offCount = 0;
-    for (let k = 0; k < kept.length; k++) {
-      if (off[k]) {
-        flag[kept[k]] = 'lost:off-path';
-        quality[kept[k]] = 0;
-        offCount++;
+
+    // ---- unwrap ----
+    const unwrapped = unwrapAngles(t_s, wrapped);
+    const steps = Array.from(unwrapped.step_deg).sort((a, b) => a - b);
+    const p95 = steps.length ? steps[Math.min(steps.length - 1, Math.floor(0.95 * steps.length))] : 0;
+    if (p95 > 60) {
+      warnings.push(`The hub turns up to ${p95.toFixed(0)}° between frames, close to the 180° aliasing limit of a single marker; film at a higher frame rate or check the direction by eye.`);
+    }
+    for (const s of unwrapped.splits) {
+      warnings.push(`The marker was lost for ${s.gap_s.toFixed(2)} s after ${s.t_s.toFixed(3)} s, too long to count the turns; the series is split there and the turn count after it is a best guess.`);
+    }
+    const lostByReason: Record<string, number> = {};
+    let lost = 0;
+    for (let i = 0; i < n; i++) {
+      if (flag[i] !== '') {
+        lost++;
+        lostByReason[flag[i]] = (lostByReason[flag[i]] ?? 0) + 1;
       }
     }
-    if (offCount > OFF_CIRCLE_WARN_SHARE * kept.length) {
-      warnings.push(
-        `${((100 * offCount) / kept.length).toFixed(0)}% of the marker detections lie off a circle about the centre ${view.cx_px.toFixed(1)},${view.cy_px.toFixed(1)}, so the follower may have followed something else (a drifting particle, a reflection, an edge); check preview.png, --roi and --center.`,
-      );
-    }
-    const plain: ViewGeometry = { cx_px: view.cx_px, cy_px: view.cy_px, axis_ratio: 1, major_axis_deg: 0 };
+    if (lost > 0.2 * n) warnings.push(`The marker was lost in ${((100 * lost) / n).toFixed(0)}% of frames; check the region, the marker kind and the preview.`);
+
+    const series: AngleSeries = {
+      frame: Int32Array.from(store.frame.subarray(0, n)),
+      t_s: Float64Array.from(t_s),
+      x_px: Float64Array.from(store.x.subarray(0, n)),
+      y_px: Float64Array.from(store.y.subarray(0, n)),
+      angle_deg: unwrapped.angle_deg,
+      quality: Float64Array.from(quality),
+      flag: flag.slice(0, n),
+    };
     for (let i = 0; i < n; i++) {
-      if (flag[i] !== '') continue;
-      wrapped[i] = rotorPlaneAngle(store.sx[i], store.sy[i], view);
-      const raw = rotorPlaneAngle(store.sx[i], store.sy[i], plain);
-      maxCorrection = Math.max(maxCorrection, Math.abs(wrapDeg(wrapped[i] - raw)));
+      if (series.flag[i] !== '') {
+        series.x_px[i] = NaN;
+        series.y_px[i] = NaN;
+        series.angle_deg[i] = NaN;
+      }
     }
-    if (viewSummary) viewSummary.max_correction_deg = maxCorrection;
-  }
+    const timing = frameTiming(t_s);
+    const hash = await hashing;
+    const pathSample: { x_px: number; y_px: number }[] = [];
+    const every = Math.max(1, Math.ceil(n / 400));
+    for (let i = 0; i < n; i += every) if (Number.isFinite(series.x_px[i])) pathSample.push({ x_px: series.x_px[i], y_px: series.y_px[i] });
+    const otherSamples = multi ? otherMarkerSamples(multi.paths, 400) : [];
 
-  // ---- unwrap ----
-  const unwrapped = unwrapAngles(t_s, wrapped);
-  const steps = Array.from(unwrapped.step_deg).sort((a, b) => a - b);
-  const p95 = steps.length ? steps[Math.min(steps.length - 1, Math.floor(0.95 * steps.length))] : 0;
-  if (p95 > 60) {
-    warnings.push(`The hub turns up to ${p95.toFixed(0)}° between frames, close to the 180° aliasing limit of a single marker; film at a higher frame rate or check the direction by eye.`);
-  }
-  for (const s of unwrapped.splits) {
-    warnings.push(`The marker was lost for ${s.gap_s.toFixed(2)} s after ${s.t_s.toFixed(3)} s, too long to count the turns; the series is split there and the turn count after it is a best guess.`);
-  }
-  const lostByReason: Record<string, number> = {};
-  let lost = 0;
-  for (let i = 0; i < n; i++) {
-    if (flag[i] !== '') {
-      lost++;
-      lostByReason[flag[i]] = (lostByReason[flag[i]] ?? 0) + 1;
+    const summary: TrackSummary = {
+      software: { ...SOFTWARE },
+      input: {
+        path,
+        size_bytes: hash.size_bytes,
+        sha256: hash.sha256,
+        width: header.width,
+        height: header.height,
+        frame_count: n,
+        nominal_fps: timing.median_fps,
+        variable_frame_rate: timing.variable_frame_rate,
+      },
+      settings: {
+        roi: [roi.x, roi.y, roi.w, roi.h],
+        centre: centre ? [centre.x_px, centre.y_px] : null,
+        marker: mode.kind === 'color' ? `color:${mode.hex}` : mode.kind,
+        colour_tolerance: mode.kind === 'color' ? tolerance : null,
+        anchor: anchor ? [anchor.x, anchor.y, anchor.w, anchor.h] : null,
+        from_s: options.from_s ?? null,
+        to_s: options.to_s ?? null,
+        tilt_deg: options.tilt_deg ?? null,
+        tilt_axis_deg: options.tilt_axis_deg ?? null,
+        decoded_region: [crop.x, crop.y, crop.w, crop.h],
+        angle_zero: mode.kind === 'texture' ? 'first frame' : 'marker angle about the centre at the first good frame, from image +x',
+        unwrap: { max_ambiguity_deg: 90, rate_change_fraction: 0.25 },
+      },
+      centre: centreSummary,
+      view: viewSummary,
+      camera_motion: anchor
+        ? { anchor: [anchor.x, anchor.y, anchor.w, anchor.h], max_shift_px: shiftMax, max_rotation_deg: rotMax, rms_shift_px: motionCount ? Math.sqrt(shiftSs / motionCount) : NaN }
+        : null,
+      frames: { decoded: n, lost, lost_by_reason: lostByReason },
+      splits: unwrapped.splits.map((s) => ({ after_frame: series.frame[s.after_index], t_s: s.t_s, gap_s: s.gap_s })),
+      path_sample: [...pathSample, ...otherSamples.flat()],
+      warnings,
+    };
+    if (fit) summary.path_fit = { rms_px: fit.rms_px, rejected: countZeros(fit.inlier) };
+    if (multi && multiSummary) {
+      summary.settings.markers = markerCount;
+      summary.settings.angle_zero = 'first marker angle about the centre at the first good frame, from image +x (markers numbered counterclockwise from +x at the first frame all are seen)';
+      if (multiSummary.path_fit) summary.path_fit = multiSummary.path_fit;
+      summary.markers = multiSummary.markers;
     }
-  }
-  if (lost > 0.2 * n) warnings.push(`The marker was lost in ${((100 * lost) / n).toFixed(0)}% of frames; check the region, the marker kind and the preview.`);
 
-  const series: AngleSeries = {
-    frame: Int32Array.from(store.frame.subarray(0, n)),
-    t_s: Float64Array.from(t_s),
-    x_px: Float64Array.from(store.x.subarray(0, n)),
-    y_px: Float64Array.from(store.y.subarray(0, n)),
-    angle_deg: unwrapped.angle_deg,
-    quality: Float64Array.from(quality),
-    flag: flag.slice(0, n),
-  };
-  for (let i = 0; i < n; i++) {
-    if (series.flag[i] !== '') {
-      series.x_px[i] = NaN;
-      series.y_px[i] = NaN;
-      series.angle_deg[i] = NaN;
-    }
+    const preview = await previewFrame;
+    markPreview(preview, {
+      roi,
+      anchor,
+      view,
+      centre: { x_px: centreSummary.x_px.value, y_px: centreSummary.y_px.value },
+      detections: pathSample.slice(0, 400),
+      ...(multi ? { other_markers: otherSamples } : {}),
+    });
+    return { series, summary, preview };
+  } finally {
+    side.abort();
   }
-  const timing = frameTiming(t_s);
-  const hash = await hashFile(path);
-  const pathSample: { x_px: number; y_px: number }[] = [];
-  const every = Math.max(1, Math.ceil(n / 400));
-  for (let i = 0; i < n; i += every) if (Number.isFinite(series.x_px[i])) pathSample.push({ x_px: series.x_px[i], y_px: series.y_px[i] });
-  const otherSamples = multi ? otherMarkerSamples(multi.paths, 400) : [];
-
-  const summary: TrackSummary = {
-    software: { ...SOFTWARE },
-    input: {
-      path,
-      size_bytes: hash.size_bytes,
-      sha256: hash.sha256,
-      width: header.width,
-      height: header.height,
-      frame_count: n,
-      nominal_fps: timing.median_fps,
-      variable_frame_rate: timing.variable_frame_rate,
-    },
-    settings: {
-      roi: [roi.x, roi.y, roi.w, roi.h],
-      centre: centre ? [centre.x_px, centre.y_px] : null,
-      marker: mode.kind === 'color' ? `color:${mode.hex}` : mode.kind,
-      colour_tolerance: mode.kind === 'color' ? tolerance : null,
-      anchor: anchor ? [anchor.x, anchor.y, anchor.w, anchor.h] : null,
-      from_s: options.from_s ?? null,
-      to_s: options.to_s ?? null,
-      tilt_deg: options.tilt_deg ?? null,
-      tilt_axis_deg: options.tilt_axis_deg ?? null,
-      decoded_region: [crop.x, crop.y, crop.w, crop.h],
-      angle_zero: mode.kind === 'texture' ? 'first frame' : 'marker angle about the centre at the first good frame, from image +x',
-      unwrap: { max_ambiguity_deg: 90, rate_change_fraction: 0.25 },
-    },
-    centre: centreSummary,
-    view: viewSummary,
-    camera_motion: anchor
-      ? { anchor: [anchor.x, anchor.y, anchor.w, anchor.h], max_shift_px: shiftMax, max_rotation_deg: rotMax, rms_shift_px: motionCount ? Math.sqrt(shiftSs / motionCount) : NaN }
-      : null,
-    frames: { decoded: n, lost, lost_by_reason: lostByReason },
-    splits: unwrapped.splits.map((s) => ({ after_frame: series.frame[s.after_index], t_s: s.t_s, gap_s: s.gap_s })),
-    path_sample: [...pathSample, ...otherSamples.flat()],
-    warnings,
-  };
-  if (fit) summary.path_fit = { rms_px: fit.rms_px, rejected: countZeros(fit.inlier) };
-  if (multi && multiSummary) {
-    summary.settings.markers = markerCount;
-    summary.settings.angle_zero = 'first marker angle about the centre at the first good frame, from image +x (markers numbered counterclockwise from +x at the first frame all are seen)';
-    if (multiSummary.path_fit) summary.path_fit = multiSummary.path_fit;
-    summary.markers = multiSummary.markers;
-  }
-
-  const preview = await drawPreview(path, {
-    header,
-    ffmpeg: options.ffmpeg,
-    ffprobe: options.ffprobe,
-    from_s: options.from_s,
-    roi,
-    anchor,
-    view,
-    centre: { x_px: centreSummary.x_px.value, y_px: centreSummary.y_px.value },
-    detections: pathSample.slice(0, 400),
-    ...(multi ? { other_markers: otherSamples } : {}),
-    signal: options.signal,
-  });
-  return { series, summary, preview };
 }
 
 /** The least-squares circle through a marker path (evenly thinned to at most 2000 points, px) and the arc it sweeps about that circle's centre, deg. */
