@@ -13,6 +13,13 @@ const here = fileURLToPath(new URL('.', import.meta.url));
 const out = join(here, 'out');
 const ROI = { x: 720, y: 300, w: 480, h: 480 };
 
+if (process.argv[2] === '--read') {
+  // child: the reader alone (same crop, frames drained): what the transport into Node costs before any tracking
+  const { readFrames } = await import('../dist/video/readFrames.js');
+  for await (const frame of readFrames(process.argv[3], { roi: ROI, reuse_buffers: true })) void frame;
+  process.exit(0);
+}
+
 if (process.argv[2] === '--run') {
   // child: `revtrace track` as a person runs it (the CLI's own imports included), then its wall time and peak RSS
   const { main } = await import('../dist/cli/main.js');
@@ -83,13 +90,23 @@ function track(file) {
   return { wall_s: wall, ...JSON.parse(r.stdout) };
 }
 
+/** The reader alone in a child node process; wall seconds. */
+function readOnly(file) {
+  const t0 = performance.now();
+  const r = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--read', file], { encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(r.stderr);
+  return (performance.now() - t0) / 1000;
+}
+
 const load = () => os.loadavg()[0].toFixed(1);
 await bare(oneMin); // warm the page cache
 const reps = Number(process.env.REPS ?? 3);
 const bases = [];
 const tracks = [];
+const reads = [];
 for (let i = 0; i < reps; i++) {
   bases.push(await bare(oneMin));
+  reads.push(readOnly(oneMin));
   tracks.push(track(oneMin));
 }
 const best = (a) => Math.min(...a);
@@ -100,6 +117,10 @@ console.log(JSON.stringify({
   track_s: tracks.map((t) => +t.wall_s.toFixed(2)),
   ratio_best: +(bestTrack / best(bases)).toFixed(3),
   ratio_median: +(median(tracks.map((t) => t.wall_s)) / median(bases)).toFixed(3),
+  // the split of the overhead: the reader alone against bare ffmpeg, and tracking against the reader alone
+  reader_s: reads.map((v) => +v.toFixed(2)),
+  reader_ratio_median: +(median(reads) / median(bases)).toFixed(3),
+  track_over_reader_median: +(median(tracks.map((t) => t.wall_s)) / median(reads)).toFixed(3),
   frames: tracks[0].frames,
   lost: tracks[0].lost,
   centre: tracks[0].centre.map((v) => +v.toFixed(2)),
