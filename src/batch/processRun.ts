@@ -6,6 +6,7 @@ import { trackVideo } from '../track/trackVideo.js';
 import { writeTrackOutputs } from '../track/writeTrackOutputs.js';
 import type { RunJob, RunProcessor } from './RunJob.js';
 import { runRecordFor } from './runRecordFor.js';
+import { inManifestTerms } from './inManifestTerms.js';
 
 /** The track options of a job: its effective settings, with nulls left to the tracker's defaults. */
 export function trackOptionsFor(job: RunJob): TrackOptions {
@@ -32,6 +33,8 @@ export const processRun: RunProcessor = async (job, signal, onProgress) => {
   const started = new Date();
   const track = await trackVideo(job.video_abs, { ...trackOptionsFor(job), signal, onProgress });
   signal.throwIfAborted();
+  // settings came from manifest columns, so messages name the columns, not command-line options
+  track.summary.warnings = track.summary.warnings.map(inManifestTerms);
   await writeTrackOutputs(job.run_dir, track);
   const frames = track.summary.frames;
   const lost_share = frames.decoded > 0 ? frames.lost / frames.decoded : 1;
@@ -48,7 +51,7 @@ export const processRun: RunProcessor = async (job, signal, onProgress) => {
     error: null,
     fit: fit.report,
     lost_share,
-    warnings: [...new Set([...track.summary.warnings, ...fit.report.diagnostics.warnings])],
+    warnings: [...new Set([...track.summary.warnings, ...fit.report.diagnostics.warnings.map(inManifestTerms)])],
     started_at: started.toISOString(),
     finished_at: finished.toISOString(),
     elapsed_s: (finished.getTime() - started.getTime()) / 1000,

@@ -18,6 +18,7 @@ import { rebuildSummary } from './rebuildSummary.js';
 import type { RunJob, RunProcessor, RunProgress } from './RunJob.js';
 import type { RunRecord } from './RunRecord.js';
 import { runRecordFor } from './runRecordFor.js';
+import { inManifestTerms } from './inManifestTerms.js';
 import { commitRecord, outputsPresent, readCommittedRecord, resetRunFolder } from './runFolder.js';
 import { shardOf, type Shard } from './shard.js';
 import { headlineRate } from './summaryRow.js';
@@ -67,8 +68,9 @@ function refreshed(record: RunRecord, job: RunJob): RunRecord | null {
   return same ? null : { ...record, ...fresh };
 }
 
+/** A failed run's reason in one sentence, naming manifest columns where the stage named an option. */
 function messageOf(err: unknown): string {
-  if (err instanceof RevtraceError) return err.message;
+  if (err instanceof RevtraceError) return inManifestTerms(err.message);
   const m = err instanceof Error ? err.message : String(err);
   return `internal error: ${m}`;
 }

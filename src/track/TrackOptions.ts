@@ -36,6 +36,23 @@ export interface TrackOptions {
   onProgress?: (p: { frames: number; t_s: number; duration_s: number }) => void;
 }
 
+/** Every option name trackVideo reads (a misspelt one would otherwise be ignored without a word). */
+const TRACK_OPTION_NAMES: readonly (keyof TrackOptions)[] = [
+  'roi', 'centre', 'marker', 'markers', 'colour_tolerance', 'anchor', 'from_s', 'to_s', 'tilt_deg', 'tilt_axis_deg',
+  'texture_radii_px', 'ffmpeg', 'ffprobe', 'signal', 'onProgress',
+];
+/** Spellings people reach for, and the option meant. */
+const TRACK_OPTION_SPELLINGS: Record<string, keyof TrackOptions> = { center: 'centre', color_tolerance: 'colour_tolerance', tolerance: 'colour_tolerance', from: 'from_s', to: 'to_s', tilt: 'tilt_deg' };
+
+/** Throws an InputError naming the first option trackVideo does not know (for callers from plain JavaScript, where types do not check it). */
+export function checkTrackOptionNames(options: object): void {
+  for (const name of Object.keys(options)) {
+    if ((TRACK_OPTION_NAMES as readonly string[]).includes(name)) continue;
+    const meant = TRACK_OPTION_SPELLINGS[name];
+    throw new InputError(`trackVideo has no option '${name}'${meant ? `; did you mean '${meant}'?` : `; the options are ${TRACK_OPTION_NAMES.join(', ')}`}`);
+  }
+}
+
 export type MarkerMode = { kind: 'bright' } | { kind: 'dark' } | { kind: 'color'; rgb: [number, number, number]; hex: string } | { kind: 'texture' };
 
 /** Parses a marker option: 'bright', 'dark', 'color:#rrggbb' (or 'colour:'), 'texture'. */

@@ -18,7 +18,7 @@ import { offCircle } from './pathCheck.js';
 import { createMarkerFollowers } from './followMarkers.js';
 import { MarkerPathStore } from './MarkerPathStore.js';
 import { multiMarkerGeometry } from './multiMarkerGeometry.js';
-import { checkInside, parseMarker, toRegion, type MarkerMode, type RegionPx, type TrackOptions } from './TrackOptions.js';
+import { checkInside, checkTrackOptionNames, parseMarker, toRegion, type MarkerMode, type RegionPx, type TrackOptions } from './TrackOptions.js';
 import { TrackingError } from './TrackingError.js';
 import { givenQuantity, viewFromPathFit, viewWithoutPathFit } from './viewFromPathFit.js';
 import { unwrapAngles } from './unwrapAngles.js';
@@ -49,6 +49,7 @@ const OFF_CIRCLE_WARN_SHARE = 0.1;
  * counterclockwise from the image's +x direction about the centre (texture mode: 0 at the first frame).
  */
 export async function trackVideo(path: string, options: TrackOptions = {}): Promise<TrackResult> {
+  checkTrackOptionNames(options);
   const mode = parseMarker(options.marker ?? 'bright');
   const header = await probeVideoHeader(path, { ffprobe: options.ffprobe });
   const roi = options.roi !== undefined ? toRegion('--roi', options.roi) : { x: 0, y: 0, w: header.width, h: header.height };

@@ -106,4 +106,17 @@ describe('batch through the real pipeline', () => {
     expect(merge.status, merge.stderr).toBe(0);
     expect(await readFile(join(sharded, 'summary.csv'), 'utf8')).toBe(await readFile(join(dir, 'out', 'summary.csv'), 'utf8'));
   });
+
+  it('names the manifest column, not a command-line option, when a run fails on its settings', async () => {
+    // the centre lies outside the region: the track stage's sentence names --center and --roi, the batch's must name the columns
+    const lines = ['video,run,direction,roi,center', 'clips/fwd-1a.mp4,bad-centre,forward,"10,10,100,100","200,50"'];
+    await writeFile(join(dir, 'bad.csv'), `${lines.join('\n')}\n`);
+    const out = join(dir, 'bad-out');
+    const r = spawnSync(process.execPath, [bin, 'batch', 'bad.csv', '--out', out, '--json'], { cwd: dir, encoding: 'utf8' });
+    expect(r.status).not.toBe(0);
+    const [row] = await summaryOf(out);
+    expect(row!.status).toBe('failed');
+    expect(row!.error).toMatch(/^column center 200,50 lies outside column roi 10,10,100,100; /);
+    expect(row!.error).not.toContain('--');
+  });
 });

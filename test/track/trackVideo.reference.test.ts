@@ -106,6 +106,9 @@ describe('marker kinds and outputs', () => {
     await expect(trackVideo(clip.videoPath, { roi: { x: 10, y: 10, w: 100, h: 100 }, centre: { x: 200, y: 50 } })).rejects.toThrow(/--center 200,50 lies outside --roi/);
     await expect(trackVideo(clip.videoPath, { marker: 'color:#00ff00' })).rejects.toThrow(/no pixel in the whole 320×240 frame \(no --roi given\) comes within .* color:00ff00/);
     await expect(trackVideo(clip.videoPath, { marker: 'glowing' })).rejects.toThrow(/--marker glowing is not a marker kind/);
+    // from plain JavaScript a misspelt option would be ignored without a word: it is named instead
+    await expect(trackVideo(clip.videoPath, { center: { x: 160, y: 120 } } as never)).rejects.toThrow(/trackVideo has no option 'center'; did you mean 'centre'\?/);
+    await expect(trackVideo(clip.videoPath, { region: [0, 0, 100, 100] } as never)).rejects.toThrow(/trackVideo has no option 'region'; the options are roi, centre, /);
     // a region of plain background holds no marker
     await expect(trackVideo(clip.videoPath, { roi: { x: 0, y: 200, w: 60, h: 40 } })).rejects.toThrow(/no bright marker was found in --roi 0,200,60,40/);
   });
