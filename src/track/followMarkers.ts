@@ -15,7 +15,7 @@ export interface FollowMarkersOptions {
  * Follows several marker spots on one hub, each with its own spot follower (own prediction and gate).
  * Until all `count` markers are seen in one frame, nothing is followed (every marker `lost:no-blob`). At that
  * frame the `count` biggest spots (findSpots; spots crossing the region's edge last) are numbered counterclockwise as displayed from the image's +x
- * direction about their mean position, and each follower is started on its own spot (it sees nothing else in that frame). Every frame, each
+ * direction about their mean position, and each follower is started on its own spot (its first search takes the spot nearest it; the others are blanked). Every frame, each
  * follower sees the signal with the other markers blanked out (a disc around their latest or extrapolated
  * position, for up to MAX_BLANK_AGE lost frames, filled with the region's median), so it can neither start on, reacquire nor drift onto another
  * marker. A reading that still lands on a spot another marker took this frame is refused (`lost:gate`).
@@ -63,7 +63,7 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
     };
     spots.sort((p, q) => polar(p) - polar(q));
     for (const s of spots) {
-      followers.push(createSpotFollower({ region }));
+      followers.push(createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px } }));
       last.push({ x: s.x_px, y: s.y_px, dx: 0, dy: 0, age: 0, r: Math.sqrt(Math.max(4, s.area_px) / Math.PI) });
     }
     return true;
@@ -72,25 +72,14 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
   return {
     /** Measures every marker in this frame's signal image (width px per row), at frame time t_s; one reading per marker. */
     update(signal: Uint8Array, width: number, t_s: number): SpotReading[] {
-      const starting = followers.length === 0;
-      if (starting && !start(signal, width)) {
+      if (followers.length === 0 && !start(signal, width)) {
         return Array.from({ length: count }, () => ({ x_px: Number.NaN, y_px: Number.NaN, quality: 0, flag: 'lost:no-blob' }));
       }
       scratch = scratch && scratch.length === signal.length ? scratch : new Uint8Array(signal.length);
       const fill = regionMedian(signal, width);
       const out: SpotReading[] = [];
       for (let j = 0; j < count; j++) {
-        if (starting) {
-          // the first frame: the follower sees only its own spot, so it starts there and nowhere else
-          scratch.fill(fill);
-          const m = last[j];
-          const rad = 2 * m.r + 3;
-          for (let y = Math.max(region.y0, Math.floor(m.y - rad)); y <= Math.min(region.y1 - 1, Math.ceil(m.y + rad)); y++) {
-            for (let x = Math.max(region.x0, Math.floor(m.x - rad)); x <= Math.min(region.x1 - 1, Math.ceil(m.x + rad)); x++) scratch[y * width + x] = signal[y * width + x];
-          }
-        } else {
-          scratch.set(signal);
-        }
+        scratch.set(signal);
         for (let k = 0; k < count; k++) {
           if (k === j) continue;
           const found = k < j && out[k].flag === '';
