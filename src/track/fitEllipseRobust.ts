@@ -170,3 +170,13 @@ function percentiles(values: number[]): [number, number] {
   const at = (p: number): number => s[Math.min(s.length - 1, Math.max(0, Math.round(p * (s.length - 1))))];
   return [at(0.025), at(0.975)];
 }
+
+/** fitEllipseRobust about the given centre (if any), or null when the points do not lie on an ellipse (too few, collinear, a hyperbola). */
+export function fitPathEllipse(x_px: Float64Array, y_px: Float64Array, centre: { x_px: number; y_px: number } | null): RobustEllipseFit | null {
+  try {
+    return fitEllipseRobust(x_px, y_px, centre ? { centre } : {});
+  } catch (err) {
+    if (err instanceof EllipseFitFailure) return null;
+    throw err;
+  }
+}

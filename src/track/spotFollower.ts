@@ -21,9 +21,14 @@ export interface SpotFollowerOptions {
   area_factor?: number;
   /** After this many frames lost in a row, forget the motion and the spot size and search the whole region again (default 15). */
   reacquire_after?: number;
+  /** A marker that stood still or crept (SLOW_PX_PER_FRAME) and is then lost this many frames in a row has probably started to turn: search the whole region again, keeping its size (default 2). */
+  restart_after?: number;
   /** Where to start, signal-image px: the first search takes the spot nearest this point (default: the biggest spot). */
   start?: { x_px: number; y_px: number };
 }
+
+/** Recent positions whose first and last lie less than this far apart per frame between them (px): the marker stands still or creeps (the rotor is at rest, just starting, or nearly at rest). */
+const SLOW_PX_PER_FRAME = 0.5;
 
 /**
  * Follows one marker spot from frame to frame. The next position is predicted from recent good positions (circle through the first, middle and last of the last seven, constant angular rate at each frame's
@@ -37,6 +42,7 @@ export function createSpotFollower(options: SpotFollowerOptions) {
   const gateFactor = options.gate_rms_factor ?? 5;
   const areaFactor = options.area_factor ?? 1.6;
   const reacquireAfter = options.reacquire_after ?? 15;
+  const restartAfter = options.restart_after ?? 2;
   const hist: { t: number; x: number; y: number }[] = [];
   const misses: number[] = [];
   const areas: number[] = [];
@@ -79,6 +85,11 @@ export function createSpotFollower(options: SpotFollowerOptions) {
         hist.length = 0;
         misses.length = 0;
         areas.length = 0;
+      } else if (lostRun >= restartAfter && hist.length >= 3 && movesSlowly(hist)) {
+        // a rotor starting from rest leaves the tight gate of a still marker within a frame or two, faster than the
+        // gate widens: look for it over the whole region again (nearest to where it stood), still of the size it had
+        hist.length = 0;
+        misses.length = 0;
       }
       const preds = predict(t_s);
       const pred = preds.length ? preds[0] : null;
@@ -159,6 +170,13 @@ export function createSpotFollower(options: SpotFollowerOptions) {
 
 export type SpotFollower = ReturnType<typeof createSpotFollower>;
 
+/** Whether the first and last kept positions lie less than SLOW_PX_PER_FRAME apart per kept step between them. */
+function movesSlowly(points: readonly { x: number; y: number }[]): boolean {
+  const a = points[0];
+  const b = points[points.length - 1];
+  return Math.hypot(b.x - a.x, b.y - a.y) < SLOW_PX_PER_FRAME * (points.length - 1);
+}
+
 function wrapRad(a: number): number {
   return a - 2 * Math.PI * Math.round(a / (2 * Math.PI));
 }
@@ -167,7 +185,7 @@ function wrapRad(a: number): number {
 function circumcentre(a: { x: number; y: number }, b: { x: number; y: number }, c: { x: number; y: number }): { x: number; y: number } | null {
   const d = 2 * (a.x * (b.y - c.y) + b.x * (c.y - a.y) + c.x * (a.y - b.y));
   const scale = Math.max(Math.hypot(b.x - a.x, b.y - a.y), Math.hypot(c.x - b.x, c.y - b.y)) ** 2;
-  if (Math.abs(d) < 1e-3 * scale) return null;
+  if (!(scale > 0) || Math.abs(d) < 1e-3 * scale) return null; // coincident points (a marker at rest) have no circle
   const a2 = a.x * a.x + a.y * a.y;
   const b2 = b.x * b.x + b.y * b.y;
   const c2 = c.x * c.x + c.y * c.y;

@@ -11,7 +11,7 @@ import { createTextureTracker, type TextureTracker } from './textureTracker.js';
 import { arcCoverage } from './arcCoverage.js';
 import { colourSimilarityTable } from './colourDistanceTable.js';
 import { fitCircle, type Circle } from './fitCircle.js';
-import { fitEllipseRobust, type RobustEllipseFit } from './fitEllipseRobust.js';
+import { fitPathEllipse, type RobustEllipseFit } from './fitEllipseRobust.js';
 import { rotorPlaneAngle, wrapDeg, type ViewGeometry } from './rotorPlaneAngle.js';
 import { createMarkerHypotheses, pickMarkerTrack } from './markerHypotheses.js';
 import { offCircle } from './pathCheck.js';
@@ -268,8 +268,15 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
         if (off) warnings.push(`The marker's path is centred near ${off.x_px.toFixed(1)},${off.y_px.toFixed(1)} px, ${off.distance_px.toFixed(1)} px from --center ${centre.x_px},${centre.y_px}; a wrong centre shows up as a false tilt and a wobbling rate, so check --center (or leave it out: this path sweeps enough to fit it).`);
       }
       const canFit = centre ? arcAbout >= MIN_ARC_CENTRED_DEG : true;
-      if (canFit) {
-        fit = fitEllipseRobust(gx, gy, centre ? { centre } : {});
+      fit = canFit ? fitPathEllipse(gx, gy, centre) : null;
+      if (canFit && !fit && !centre) {
+        throw new InputError(`the marker's detections in ${regionWords} do not lie on an ellipse, so its centre cannot be fitted; give --center x,y, and check --roi and --marker (something else may have been followed)`);
+      }
+      if (canFit && !fit) {
+        const ignored: string[] = [];
+        ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewWithoutPathFit(cx, cy, { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg }, arcAbout, 'The marker', ignored));
+        warnings.push(`The marker's detections do not lie on an ellipse about --center, so the view could not be measured; angles assume a square-on camera${options.tilt_deg === undefined ? ' (give --tilt deg if it is not)' : ''}; check preview.png for something else followed.`);
+      } else if (fit) {
         // frames far off the fitted path are not trusted
         for (let k = 0; k < good.length; k++) {
           if (!fit.inlier[k]) {

@@ -7,6 +7,8 @@ export interface UnwrapOptions {
   rate_change_fraction?: number;
   /** Number of recent good frames whose least-squares slope predicts the next step (default 30). */
   history?: number;
+  /** Consecutive good frames after a gap whose slope gives the rate the rotor came out of the gap with (default 6). */
+  lookahead?: number;
 }
 
 export interface UnwrapSplit {
@@ -28,9 +30,12 @@ export interface UnwrapResult {
  * Unwraps per-frame angles (deg, wrapped, NaN for a lost frame) into a cumulative angle.
  * Each step is taken as the wrapped difference nearest to the prediction `rate × Δt`, where the rate is
  * the least-squares slope of the last `history` good frames. The first good frame keeps its wrapped value.
- * Rule for gaps: the prediction over a gap of Δt seconds is uncertain by
- * Δt × (3·se(rate) + rate_change_fraction·|rate|); with fewer than 3 recent frames it is unknown (a gap
- * then always splits). When that exceeds
+ * Rule for gaps: the rotor may speed up or slow down while it is not seen, so the rate it comes out with is
+ * measured too, from the next `lookahead` consecutive good frames (their steps taken nearest to zero). The
+ * rotation over a gap of Δt seconds is predicted with the mean of the rates before and after it (the
+ * trapezoid rule: right for a steady change of rate) and is uncertain by
+ * Δt × (3·se(rate) + rate_change_fraction·max(|rate before|, |rate after|) + |rate after − rate before| / 2);
+ * with fewer than 3 recent frames it is unknown (a gap then always splits). When that exceeds
  * max_ambiguity_deg the whole-turn count across the gap cannot be known: the series is split there, the
  * angle after the gap is still placed nearest to the prediction (a best guess of the turn count), the rate
  * history restarts, and the split is reported so that rates are fitted within segments only.
@@ -40,6 +45,7 @@ export function unwrapAngles(t_s: Float64Array, wrapped_deg: Float64Array, optio
   const maxAmbiguity = options.max_ambiguity_deg ?? 90;
   const fraction = options.rate_change_fraction ?? 0.25;
   const historySize = options.history ?? 30;
+  const lookahead = options.lookahead ?? 6;
   const n = t_s.length;
   const angle = new Float64Array(n).fill(Number.NaN);
   const splits: UnwrapSplit[] = [];
@@ -59,8 +65,11 @@ export function unwrapAngles(t_s: Float64Array, wrapped_deg: Float64Array, optio
     }
     const dt = t_s[i] - t_s[prev];
     const { rate, se } = rateEstimate(recentT, recentA);
-    const predicted = rate * dt;
-    const uncertainty = dt * (3 * se + fraction * Math.abs(rate));
+    // across a gap, the rate the rotor comes out with (when the frames after it show one)
+    const after = i - prev > 1 ? rateAfter(t_s, wrapped_deg, i, lookahead) : null;
+    const rateOut = after ?? rate;
+    const predicted = ((rate + rateOut) / 2) * dt;
+    const uncertainty = dt * (3 * se + fraction * Math.max(Math.abs(rate), Math.abs(rateOut)) + Math.abs(rateOut - rate) / 2);
     const delta = predicted + wrapDeg(w - angle[prev] - predicted);
     angle[i] = angle[prev] + delta;
     if (i - prev > 1 && uncertainty > maxAmbiguity) {
@@ -78,6 +87,20 @@ export function unwrapAngles(t_s: Float64Array, wrapped_deg: Float64Array, optio
     prev = i;
   }
   return { angle_deg: angle, splits, step_deg: Float64Array.from(steps) };
+}
+
+/**
+ * Rate (deg/s) over the good frames from index `from` on that follow each other without a lost frame (at most
+ * `count`), each step taken nearest to zero (so below 180° per frame); null when fewer than 3 such frames follow.
+ */
+function rateAfter(t_s: Float64Array, wrapped_deg: Float64Array, from: number, count: number): number | null {
+  const t: number[] = [t_s[from]];
+  const a: number[] = [wrapped_deg[from]];
+  for (let k = from + 1; k < t_s.length && t.length < count && !Number.isNaN(wrapped_deg[k]); k++) {
+    t.push(t_s[k]);
+    a.push(a[a.length - 1] + wrapDeg(wrapped_deg[k] - wrapped_deg[k - 1]));
+  }
+  return t.length >= 3 ? rateEstimate(t, a).rate : null;
 }
 
 /** Least-squares slope of angle on time (deg/s) and its standard error; se = ∞ with fewer than 3 points. */

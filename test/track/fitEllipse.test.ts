@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { conicToEllipse, fitCentredEllipse, fitEllipse } from '../../src/track/fitEllipse.js';
-import { fitEllipseRobust, sampsonDistance } from '../../src/track/fitEllipseRobust.js';
+import { fitEllipseRobust, fitPathEllipse, sampsonDistance } from '../../src/track/fitEllipseRobust.js';
 import { expectAgreesWithOpenCvEllipse } from './openCvReference.js';
 import { ellipsePoints } from './ellipsePoints.js';
 
@@ -67,5 +67,24 @@ describe('fitEllipseRobust', () => {
     const e = { cx_px: 0, cy_px: 0, semi_major_px: 100, semi_minor_px: 100, major_axis_deg: 0 };
     expect(sampsonDistance(e, 103, 0)).toBeCloseTo(3, 1);
     expect(sampsonDistance(e, 0, -97)).toBeCloseTo(-3, 1);
+  });
+});
+
+describe('fitPathEllipse', () => {
+  it('returns null instead of throwing when points about a given centre lie on no ellipse (a hyperbola)', () => {
+    // points with u·v = 100 about the centre (100, 100), u = x − 100, v = −(y − 100): A u² + B uv + C v² = 1 is met
+    // exactly by B = 1/100, A = C = 0, a hyperbola (4AC − B² < 0), not an ellipse (analytic geometry)
+    const u = Array.from({ length: 40 }, (_, i) => 10 + i);
+    const x = Float64Array.from(u, (v) => 100 + v);
+    const y = Float64Array.from(u, (v) => 100 - 100 / v);
+    expect(() => fitEllipseRobust(x, y, { centre: { x_px: 100, y_px: 100 } })).toThrow();
+    expect(fitPathEllipse(x, y, { x_px: 100, y_px: 100 })).toBeNull();
+  });
+
+  it('gives the robust fit when the points lie on an ellipse', () => {
+    const { x_px: x, y_px: y } = ellipsePoints(200, 150, 90, 60, 15, 0, 2 * Math.PI, 80);
+    const fit = fitPathEllipse(x, y, null);
+    expect(fit?.ellipse.cx_px).toBeCloseTo(200, 6);
+    expect(fit?.ellipse.semi_minor_px).toBeCloseTo(60, 6);
   });
 });

@@ -87,6 +87,38 @@ describe('offCircle and rotorPlaneRadius', () => {
     const m = offCircle(marker.x, marker.y, view);
     expect(Array.from(m.off).map((v, i) => (v ? i : -1)).filter((i) => i >= 0)).toEqual([7]);
   });
+
+  it('narrows the band to the marker\'s own scatter: a particle followed a few pixels inward is flagged', () => {
+    // a slow marker (a 6° arc) with ±0.05 px scatter, and 12 detections of a particle drifting inward 1 px per frame
+    // from 2 px inside the circle: a fixed 25 % band (20 px) would keep them all
+    const view = { cx_px: 160, cy_px: 120, axis_ratio: 1, major_axis_deg: 0 };
+    const marker = arc(160, 120, 81, 10, 0.1, 60);
+    for (let i = 0; i < 60; i++) marker.x[i] += 0.05 * Math.sin(2.3 * i);
+    const xs = [...marker.x];
+    const ys = [...marker.y];
+    for (let k = 0; k < 12; k++) {
+      xs.push(160 + (79 - k) * Math.cos((12 * Math.PI) / 180));
+      ys.push(120 - (79 - k) * Math.sin((12 * Math.PI) / 180));
+    }
+    const r = offCircle(xs, ys, view);
+    expect(r.band_px).toBe(2); // the floor: 5 robust SDs of the marker's scatter are far less
+    // the particle's distances are 79, 78, … 68 px: the first (2 px in) is inside the floor, the rest are flagged
+    expect(Array.from(r.off).map((v, i) => (v ? i : -1)).filter((i) => i >= 0)).toEqual(Array.from({ length: 11 }, (_, k) => 61 + k));
+  });
+
+  it('keeps the whole path of an oblique view measured as if square-on, whose distances vary with the angle', () => {
+    // a 40°-tilted circle seen without its view fitted: distances from 80·cos 40° = 61 px to 80 px along a 150° arc
+    const ratio = Math.cos((40 * Math.PI) / 180);
+    const xs: number[] = [];
+    const ys: number[] = [];
+    for (let k = 0; k <= 150; k++) {
+      const t = (k * Math.PI) / 180;
+      xs.push(100 + 80 * Math.cos(t));
+      ys.push(90 - 80 * ratio * Math.sin(t));
+    }
+    const r = offCircle(xs, ys, { cx_px: 100, cy_px: 90, axis_ratio: 1, major_axis_deg: 0 });
+    expect(Array.from(r.off).every((v) => v === 0)).toBe(true);
+  });
 });
 
 describe('findSpots at the window edge', () => {

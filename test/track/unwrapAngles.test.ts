@@ -42,6 +42,35 @@ describe('unwrapAngles', () => {
     expect(r.splits[0].gap_s).toBeCloseTo(141 / 30, 9);
   });
 
+  it('splits (and still counts the turns right) when the rotor spins up from rest while the marker is lost', () => {
+    // Spin-up from rest in closed form, θ = ω∞[(t − t0) − τ(1 − e^(−(t − t0)/τ))] (first-order response; common practice,
+    // no source): at rest until 0.5 s, then towards 1440°/s with τ = 0.4 s, filmed at 30 fps; frames 16–30 lost.
+    // Before the gap the rate is 0, after it ≈ 1150°/s: a rule that looks only at the rate before would see no
+    // uncertainty, keep the series whole and (as it did) count one turn too few.
+    const n = 60;
+    const t = Float64Array.from({ length: n }, (_, i) => i / 30);
+    const truth = Array.from(t, (ti) => (ti <= 0.5 ? 0 : 1440 * (ti - 0.5 - 0.4 * (1 - Math.exp(-(ti - 0.5) / 0.4)))));
+    const w = wrapAll(truth);
+    for (let i = 16; i <= 30; i++) w[i] = Number.NaN;
+    const r = unwrapAngles(t, w);
+    expect(r.splits.length).toBe(1);
+    expect(r.splits[0].after_index).toBe(15);
+    // the best guess uses the mean of the rates before and after the gap (343.8° turned; 0°/s alone would guess 0°)
+    for (let i = 31; i < n; i++) expect(r.angle_deg[i]).toBeCloseTo(truth[i], 6);
+  });
+
+  it('keeps the series whole when the rotor starts during a short gap and the turn count is plain', () => {
+    // at rest, 3 frames lost, then turning at 60°/s (2° per frame): the rotation over the gap is a few degrees either way
+    const n = 40;
+    const t = Float64Array.from({ length: n }, (_, i) => i / 30);
+    const truth = Array.from(t, (ti) => 25 + (ti <= 0.4 ? 0 : 60 * (ti - 0.4)));
+    const w = wrapAll(truth);
+    for (let i = 12; i <= 14; i++) w[i] = Number.NaN;
+    const r = unwrapAngles(t, w);
+    expect(r.splits).toEqual([]);
+    for (let i = 15; i < n; i++) expect(r.angle_deg[i]).toBeCloseTo(truth[i], 9);
+  });
+
   it('reports the per-frame step for the aliasing check', () => {
     const t = Float64Array.from([0, 1, 2, 3]);
     const r = unwrapAngles(t, wrapAll([0, 70, 140, 210]));
