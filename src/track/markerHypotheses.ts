@@ -2,6 +2,7 @@ import { arcCoverage } from './arcCoverage.js';
 import { findSpots, type Window } from './findSpots.js';
 import { fitCircle } from './fitCircle.js';
 import { MarkerPathStore } from './MarkerPathStore.js';
+import { offCircle } from './pathCheck.js';
 import { createSpotFollower, type SpotFollower } from './spotFollower.js';
 
 /** Largest number of candidate tracks started at the first frame with spots. */
@@ -55,13 +56,17 @@ export function createMarkerHypotheses(options: { region: Window }) {
 }
 
 /**
- * How well a set of detections (full-frame px, NaN = none) looks like a marker going round a centre: the number of
- * detections whose distance from the centre is within RADIUS_BAND of the median distance. The centre is the given
- * one, else the least-squares circle through the detections, which must then lie within their bounding box (a
- * path that sweeps half a turn or more surrounds its centre). A track scores 0 when it keeps no distance of at
- * least MIN_PATH_RADIUS_PX or moves less than that along its circle (a still spot: a corner, a reflection).
- * A particle drifting in a straight line scores low: its distance from a given centre changes, and the circle
- * through a straight path has its centre far outside the path.
+ * How well a set of detections (full-frame px, NaN = none) looks like a marker going round a centre.
+ * About a given centre: the number of detections within the off-path band of their median distance from it
+ * (offCircle: the marker's own scatter, at most RADIUS_BAND); a spot that barely moves counts too, since the
+ * marker of a rotor at rest or turning a degree or two over the run looks just like that, while a particle
+ * drifting past changes its distance from the centre.
+ * Without a centre: the least-squares circle through the detections, which must lie within their bounding
+ * box (a path that sweeps half a turn or more surrounds its centre), and the number of detections within
+ * RADIUS_BAND of their median distance from it; a track scores 0 when it keeps no distance of at least
+ * MIN_PATH_RADIUS_PX or moves less than that along its circle (a still spot: a corner, a reflection, whose
+ * "circle" means nothing). A particle drifting in a straight line scores low: the circle through a straight
+ * path has its centre far outside the path.
  */
 export function circularPathScore(x_px: ArrayLike<number>, y_px: ArrayLike<number>, centre: { x_px: number; y_px: number } | null): number {
   const xs: number[] = [];
@@ -73,19 +78,15 @@ export function circularPathScore(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
     }
   }
   if (xs.length < 5) return 0;
-  let cx: number;
-  let cy: number;
   if (centre) {
-    cx = centre.x_px;
-    cy = centre.y_px;
-  } else {
-    const c = fitCircle(xs, ys);
-    const inside = c.cx_px >= Math.min(...xs) && c.cx_px <= Math.max(...xs) && c.cy_px >= Math.min(...ys) && c.cy_px <= Math.max(...ys);
-    if (!inside) return 0;
-    cx = c.cx_px;
-    cy = c.cy_px;
+    const { off, median_radius_px } = offCircle(xs, ys, { cx_px: centre.x_px, cy_px: centre.y_px, axis_ratio: 1, major_axis_deg: 0 });
+    if (!(median_radius_px >= MIN_PATH_RADIUS_PX)) return 0;
+    return off.reduce((n, v) => n + (v ? 0 : 1), 0);
   }
-  const r = xs.map((x, i) => Math.hypot(x - cx, ys[i] - cy));
+  const c = fitCircle(xs, ys);
+  const inside = c.cx_px >= Math.min(...xs) && c.cx_px <= Math.max(...xs) && c.cy_px >= Math.min(...ys) && c.cy_px <= Math.max(...ys);
+  if (!inside) return 0;
+  const r = xs.map((x, i) => Math.hypot(x - c.cx_px, ys[i] - c.cy_px));
   const rMedian = [...r].sort((a, b) => a - b)[r.length >> 1];
   if (!(rMedian >= MIN_PATH_RADIUS_PX)) return 0;
   const band = Math.max(2, RADIUS_BAND * rMedian);
@@ -97,7 +98,7 @@ export function circularPathScore(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
       iy.push(ys[i]);
     }
   }
-  const sweep_px = ((arcCoverage(ix, iy, cx, cy) * Math.PI) / 180) * rMedian;
+  const sweep_px = ((arcCoverage(ix, iy, c.cx_px, c.cy_px) * Math.PI) / 180) * rMedian;
   return sweep_px >= MIN_PATH_RADIUS_PX ? ix.length : 0;
 }
 

@@ -27,6 +27,14 @@ export interface SpotFollowerOptions {
   start?: { x_px: number; y_px: number };
 }
 
+/** Areas kept for the steady-size check, which starts once this many are known. */
+const AREA_HISTORY = 15;
+/** The steady-size band: this many robust SDs of the recent areas (1.4826 × MAD; common practice, no source)… */
+const AREA_SIGMAS = 5;
+/** …but never narrower than this share of the typical area or AREA_MIN_BAND_PX (compression and noise move a small spot's edge pixels). */
+const AREA_MIN_BAND_SHARE = 0.25;
+const AREA_MIN_BAND_PX = 6;
+
 /** Recent positions whose first and last lie less than this far apart per frame between them (px): the marker stands still or creeps (the rotor is at rest, just starting, or nearly at rest). */
 const SLOW_PX_PER_FRAME = 0.5;
 
@@ -47,7 +55,11 @@ export function createSpotFollower(options: SpotFollowerOptions) {
   const misses: number[] = [];
   const areas: number[] = [];
   let lostRun = 0;
+  /** Frames of the current lost run in which something of another size sat where the marker was looked for (a particle merged with it). */
+  let shapeLosses = 0;
   let start = options.start ?? null;
+  /** Where the marker was last accepted, signal-image px: a whole-region search without a prediction takes the spot nearest it. */
+  let lastSeen: { x: number; y: number } | null = null;
 
   /** Predictions for time t: along the circle through the first, middle and last kept points (constant
    * angular rate over the last step), and straight on from the last step; the marker may match either. */
@@ -81,11 +93,12 @@ export function createSpotFollower(options: SpotFollowerOptions) {
     /** Measures the marker in this frame's signal image (width px per row), at frame time t_s. */
     update(signal: Uint8Array, width: number, t_s: number): SpotReading {
       if (lostRun >= reacquireAfter) {
-        // start afresh: the motion and the size learned before may belong to something else
+        // start afresh: the motion and the size learned before may belong to something else (the search then
+        // takes the spot nearest the last place the marker was seen, not the biggest: a particle is often bigger)
         hist.length = 0;
         misses.length = 0;
         areas.length = 0;
-      } else if (lostRun >= restartAfter && hist.length >= 3 && movesSlowly(hist)) {
+      } else if (lostRun >= restartAfter && shapeLosses === 0 && hist.length >= 3 && movesSlowly(hist)) {
         // a rotor starting from rest leaves the tight gate of a still marker within a frame or two, faster than the
         // gate widens: look for it over the whole region again (nearest to where it stood), still of the size it had
         hist.length = 0;
@@ -111,7 +124,7 @@ export function createSpotFollower(options: SpotFollowerOptions) {
         const all = findSpots(signal, width, region);
         if (all.spots.length === 0) return lost('lost:no-blob');
         let best = all.spots[0];
-        const near = pred ?? (start ? { x: start.x_px, y: start.y_px } : null);
+        const near = pred ?? (start ? { x: start.x_px, y: start.y_px } : lastSeen);
         if (near) {
           for (const s of all.spots) if (Math.hypot(s.x_px - near.x, s.y_px - near.y) < Math.hypot(best.x_px - near.x, best.y_px - near.y)) best = s;
         }
@@ -146,16 +159,21 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       // a few pixels of slack so that small markers (a dozen pixels) may flicker in size
       const ratio = typicalArea > 0 ? (spot.area_px + 6) / (typicalArea + 6) : 1;
       if (areas.length >= 3 && (ratio > areaFactor || ratio < 1 / areaFactor)) return lost('lost:shape');
+      // a marker whose size has kept steady (a slow one, same pixels every frame) is held to that: a particle
+      // touching it merges into a blob a third bigger, still inside the fixed factor, and would drag the track away
+      if (areas.length >= AREA_HISTORY && Math.abs(spot.area_px - typicalArea) > areaBand(areas, typicalArea)) return lost('lost:shape');
       // accepted
       if (pred && hist.length >= 3 && lostRun === 0) {
         misses.push(miss);
         if (misses.length > 30) misses.shift();
       }
       hist.push({ t: t_s, x: spot.x_px, y: spot.y_px });
+      lastSeen = { x: spot.x_px, y: spot.y_px };
       if (hist.length > 7) hist.shift();
       areas.push(spot.area_px);
       if (areas.length > 15) areas.shift();
       lostRun = 0;
+      shapeLosses = 0;
       const snr = spot.contrast / (spot.contrast + 10 * spot.noise);
       const shape = Math.min(ratio, 1 / ratio);
       return { x_px: spot.x_px, y_px: spot.y_px, quality: Math.max(0, Math.min(1, snr * shape)), flag: '' };
@@ -164,11 +182,19 @@ export function createSpotFollower(options: SpotFollowerOptions) {
 
   function lost(flag: string): SpotReading {
     lostRun++;
+    if (flag === 'lost:shape') shapeLosses++;
     return { x_px: Number.NaN, y_px: Number.NaN, quality: 0, flag };
   }
 }
 
 export type SpotFollower = ReturnType<typeof createSpotFollower>;
+
+/** How far a spot's area may lie from the typical (median) area of the recent ones, px. */
+function areaBand(areas: readonly number[], typical: number): number {
+  const deviations = areas.map((a) => Math.abs(a - typical)).sort((p, q) => p - q);
+  const sigma = 1.4826 * deviations[deviations.length >> 1];
+  return Math.max(AREA_MIN_BAND_PX, AREA_MIN_BAND_SHARE * typical, AREA_SIGMAS * sigma);
+}
 
 /** Whether the first and last kept positions lie less than SLOW_PX_PER_FRAME apart per kept step between them. */
 function movesSlowly(points: readonly { x: number; y: number }[]): boolean {

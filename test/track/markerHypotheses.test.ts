@@ -38,13 +38,16 @@ describe('circularPathScore', () => {
     expect(circularPathScore(drift.x, drift.y, null)).toBe(0);
   });
 
-  it('a still spot jittering in place scores about nothing; lost frames (NaN) are skipped', () => {
-    // a corner at (79, 39) with ±0.3 px jitter
+  it('a still spot scores nothing without a centre, but about a given centre counts like a marker at rest; lost frames (NaN) are skipped', () => {
+    // a spot at (79, 39) with ±0.3 px jitter: without a centre its "circle" means nothing; about the centre
+    // (160, 120) it keeps its distance (114.6 px) like the marker of a rotor at rest, and a particle drifting past does not
     const n = 60;
     const x = Float64Array.from({ length: n }, (_, i) => 79 + 0.3 * Math.cos(2.1 * i));
     const y = Float64Array.from({ length: n }, (_, i) => 39 + 0.3 * Math.sin(3.7 * i));
     expect(circularPathScore(x, y, null)).toBe(0);
-    expect(circularPathScore(x, y, { x_px: 160, y_px: 120 })).toBe(0);
+    expect(circularPathScore(x, y, { x_px: 160, y_px: 120 })).toBe(60);
+    const drift = line(60, 80, 2, 0, 60);
+    expect(circularPathScore(drift.x, drift.y, { x_px: 160, y_px: 120 })).toBeLessThan(30);
     const marker = arc(160, 120, 81, 0, 5, 90);
     for (let i = 0; i < 90; i += 3) marker.x[i] = NaN;
     expect(circularPathScore(marker.x, marker.y, { x_px: 160, y_px: 120 })).toBe(60);

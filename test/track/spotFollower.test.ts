@@ -5,13 +5,14 @@ import { createSpotFollower } from '../../src/track/spotFollower.js';
 const W = 200;
 const H = 200;
 
-/** A 200×200 image: background 60 with a deterministic ±3 ripple, and a bright disc (radius 4 px, 200) centred at (x, y), edge pixels by coverage. */
-function drawSpot(x: number, y: number): Uint8Array {
+/** A 200×200 image: background 60 with a deterministic ±3 ripple, and bright discs (200) of the given radii (default 4 px) centred at the given points, edge pixels by coverage. */
+function drawSpot(x: number, y: number, more: { x: number; y: number; r: number }[] = []): Uint8Array {
+  const discs = [{ x, y, r: 4 }, ...more];
   const img = new Uint8Array(W * H);
   for (let j = 0; j < H; j++) {
     for (let i = 0; i < W; i++) {
       let cover = 0;
-      for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (Math.hypot(i - 0.375 + sx / 4 - x, j - 0.375 + sy / 4 - y) <= 4) cover++;
+      for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (discs.some((d) => Math.hypot(i - 0.375 + sx / 4 - d.x, j - 0.375 + sy / 4 - d.y) <= d.r)) cover++;
       img[j * W + i] = Math.round(60 + 3 * Math.sin(1.3 * i + 2.1 * j) + (140 * cover) / 16);
     }
   }
@@ -55,5 +56,19 @@ describe('createSpotFollower', () => {
     const readings = Array.from({ length: 12 }, (_, k) => f.update(still, W, k / 30));
     expect(readings.map((r) => r.flag)).toEqual(Array(12).fill(''));
     for (const r of readings) expect(Math.hypot(r.x_px - 160, r.y_px - 100)).toBeLessThan(0.05);
+  });
+
+  it('refuses a blob of another size where a steady marker stands (a particle touching it) instead of following its centroid away', () => {
+    // marker at rest at (160, 100); a particle of radius 5 drifts in from the upper left, 1.5 px per frame, touches
+    // the marker for several frames and drifts on: the merged blob is 30–60 % bigger, inside a fixed factor of 1.6
+    const f = createSpotFollower({ region, start: { x_px: 160, y_px: 100 } });
+    const readings = Array.from({ length: 40 }, (_, k) => {
+      const px = 130 + 1.5 * k;
+      const py = 70 + 1.5 * k;
+      return f.update(drawSpot(160, 100, [{ x: px, y: py, r: 5 }]), W, k / 30);
+    });
+    // every kept reading is the marker itself (never a centroid dragged towards the particle), and it is kept again afterwards
+    for (const r of readings) if (r.flag === '') expect(Math.hypot(r.x_px - 160, r.y_px - 100)).toBeLessThan(0.3);
+    expect(readings.slice(-5).every((r) => r.flag === '')).toBe(true);
   });
 });
