@@ -328,6 +328,10 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     if (p95 > 60) {
       warnings.push(`The hub turns up to ${p95.toFixed(0)}° between frames, close to the 180° aliasing limit of a single marker; film at a higher frame rate or check the direction by eye.`);
     }
+    const spacing = multiSummary?.markers ? closestSpacingDeg(multiSummary.markers.phase_offset_deg) : Infinity;
+    if (p95 > spacing / 2) {
+      warnings.push(`The hub turns up to ${p95.toFixed(0)}° between frames, more than half the smallest angle between two markers (${spacing.toFixed(0)}° as measured), so a marker may have been taken for its neighbour; look for jumps in the angle, and film at a higher frame rate or space the markers further apart.`);
+    }
     for (const s of unwrapped.splits) {
       warnings.push(`The marker was lost for ${s.gap_s.toFixed(2)} s after ${s.t_s.toFixed(3)} s, too long to count the turns; the series is split there and the turn count after it is a best guess.`);
     }
@@ -421,6 +425,15 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   } finally {
     side.abort();
   }
+}
+
+/** Smallest angle between any two markers' phase offsets (deg, around the circle); Infinity for one marker. */
+function closestSpacingDeg(phase_offset_deg: readonly number[]): number {
+  let least = Infinity;
+  for (let a = 0; a < phase_offset_deg.length; a++) {
+    for (let b = a + 1; b < phase_offset_deg.length; b++) least = Math.min(least, Math.abs(wrapDeg(phase_offset_deg[a] - phase_offset_deg[b])));
+  }
+  return least;
 }
 
 /** The least-squares circle through a marker path (evenly thinned to at most 2000 points, px) and the arc it sweeps about that circle's centre, deg. */

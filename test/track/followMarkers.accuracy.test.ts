@@ -186,6 +186,16 @@ describe('trackVideo --markers 2 on synthetic footage with known truth', () => {
     expect(Math.abs(offsets[2] - 240)).toBeLessThan(0.3);
   });
 
+  it('warns when the hub turns more than half the angle between two markers per frame, and not when it turns less', async () => {
+    // two markers 40° apart (renderer's phases 0° and 40°): 1050°/s at 30 fps is 35° per frame, 300°/s is 10°
+    const close = { ...base, markers: [{ radius_px: 150, phase_deg: 0, size_px: 6, kind: 'bright' as const }, { radius_px: 150, phase_deg: 40, size_px: 6, kind: 'bright' as const }], duration_s: 2 };
+    for (const [rate, warned] of [[1050, true], [300, false]] as const) {
+      const clip = await renderClip({ ...close, profile: { kind: 'steady', rate_deg_s: rate } }, join(dir, `close-${rate}.mp4`));
+      const r = await trackVideo(clip.videoPath, { roi, markers: 2 });
+      expect(r.summary.warnings.some((w) => /more than half the smallest angle between two markers \((39|40|41)° as measured\)/.test(w)), `${rate}°/s`).toBe(warned);
+    }
+  });
+
   it('refuses --markers with texture mode and a count outside 1–8, naming the option', async () => {
     const clip = await renderClip({ ...base, duration_s: 0.3 }, join(dir, 'short.mp4'));
     await expect(trackVideo(clip.videoPath, { roi, markers: 2, marker: 'texture', centre: { x: 320, y: 240 } })).rejects.toThrow(/^--markers 2 needs marker spots/);
