@@ -42,7 +42,10 @@ const SLOW_PX_PER_FRAME = 0.5;
  * Follows one marker spot from frame to frame. The next position is predicted from recent good positions (circle through the first, middle and last of the last seven, constant angular rate at each frame's
  * own time; or straight on from the last step); the spot is searched near the prediction and refused when it lies outside the gate
  * (`lost:gate`: a passing particle or reflection) or its size jumps (`lost:shape`: something merged with or
- * covered the marker). Positions are never invented: a refused frame stays lost.
+ * covered the marker; beyond a fixed factor, or beyond the scatter of a size that has kept steady). A marker at
+ * rest that is lost for a couple of frames (not under something bigger) is looked for over the whole region
+ * again: the rotor has probably started. A search without a prediction takes the spot nearest where the marker
+ * was last seen. Positions are never invented: a refused frame stays lost.
  */
 export function createSpotFollower(options: SpotFollowerOptions) {
   const region = options.region;
