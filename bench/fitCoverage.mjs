@@ -16,11 +16,12 @@ const n = Math.round(seconds * fps);
 const rate = 0.8;
 
 console.log(`steady-rate coverage, ${reps} replicates per scenario, ${n} frames (${seconds} s at ${fps} fps), true rate ${rate} deg/s, nominal 95%, seed offset ${offset}`);
-console.log('scenario | coverage | naive OLS coverage | mean se / sd of estimate | share with a walk part | median df (jackknife alone) | segment test p < 0.05 | p < 0.01 | ms per fit');
+console.log('scenario | coverage | naive OLS coverage | mean se / sd of estimate | share with a walk part | median df (jackknife alone) | segment test p < 0.05 | p < 0.01 | ms per fit | coverage of fits with / without a walk part');
 for (const [si, sc] of SCENARIOS.entries()) {
   let cover = 0;
   let coverNaive = 0;
   let integrated = 0;
+  let integratedCover = 0;
   const est = [];
   let seSum = 0;
   let seg05 = 0;
@@ -32,8 +33,12 @@ for (const [si, sc] of SCENARIOS.entries()) {
     const { t_s, angle_deg } = simulateSteady({ seed: 1000 * si + r + 1 + offset, n, fps, t0_s: 3600, rate_deg_s: rate, ...sc.noise });
     const fit = fitSteadyRate(t_s, angle_deg, { level: 0.95 });
     const e = fit.result.rate_deg_s;
-    if (e.ci[0] <= rate && rate <= e.ci[1]) cover++;
-    if (fit.noise.walk_deg2_per_s > 0) integrated++;
+    const covers = e.ci[0] <= rate && rate <= e.ci[1];
+    if (covers) cover++;
+    if (fit.noise.walk_deg2_per_s > 0) {
+      integrated++;
+      if (covers) integratedCover++;
+    }
     dfs.push(fit.df);
     jackDfs.push(fit.jackknife_df);
     est.push(e.value);
@@ -49,8 +54,9 @@ for (const [si, sc] of SCENARIOS.entries()) {
   const sd = Math.sqrt(est.reduce((a, b) => a + (b - mean) ** 2, 0) / (reps - 1));
   const ms = (performance.now() - started) / reps;
   const median = (a) => a.sort((x, y) => x - y)[Math.floor(a.length / 2)];
+  const share = (k, of) => (of > 0 ? `${((100 * k) / of).toFixed(1)}%` : '–');
   console.log(
-    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${median(dfs).toFixed(1)} (${median(jackDfs).toFixed(1)}) | ${(100 * seg05 / reps).toFixed(1)}% | ${(100 * seg01 / reps).toFixed(1)}% | ${ms.toFixed(1)} ms/fit`,
+    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${median(dfs).toFixed(1)} (${median(jackDfs).toFixed(1)}) | ${(100 * seg05 / reps).toFixed(1)}% | ${(100 * seg01 / reps).toFixed(1)}% | ${ms.toFixed(1)} ms/fit | ${share(integratedCover, integrated)} / ${share(cover - integratedCover, reps - integrated)}`,
   );
 }
 
