@@ -2,6 +2,7 @@ import type { Command } from 'commander';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 import { toRegion } from '../track/TrackOptions.js';
+import { probeVideoHeader } from '../video/probeVideo.js';
 import { globalOptions } from './globalOptions.js';
 
 interface TrackCliOptions {
@@ -51,9 +52,12 @@ export function registerTrack(program: Command): void {
     .option('--tilt <deg>', 'camera tilt from square-on, degrees (for runs too short to fit the view)')
     .option('--quiet', 'print nothing but errors (progress is shown only on a terminal)')
     .action(async (video: string, o: TrackCliOptions, command: Command) => {
-      // the stage is loaded when the command runs, so other commands (and --help) do not pay for its imports
-      const [{ trackVideo }, { writeTrackOutputs }] = await Promise.all([import('../track/trackVideo.js'), import('../track/writeTrackOutputs.js')]);
       const g = globalOptions(command);
+      // the video's header is read while the stage loads (it is loaded only when the command runs, so other
+      // commands and --help do not pay for its imports); a failure surfaces where trackVideo would report it
+      const probing = probeVideoHeader(video, { ffprobe: g.ffprobe });
+      probing.catch(() => undefined);
+      const [{ trackVideo }, { writeTrackOutputs }] = await Promise.all([import('../track/trackVideo.js'), import('../track/writeTrackOutputs.js')]);
       let centre: { x_px: number; y_px: number } | undefined;
       if (o.center !== undefined) {
         const p = o.center.split(',').map((s) => Number(s.trim()));
@@ -67,6 +71,7 @@ export function registerTrack(program: Command): void {
       let lastPrint = Date.now();
       try {
         const result = await trackVideo(video, {
+          header: await probing,
           roi: o.roi !== undefined ? toRegion('--roi', o.roi) : undefined,
           centre,
           marker: o.marker,

@@ -1,4 +1,5 @@
 import { InputError } from '../errors.js';
+import type { VideoHeader } from '../video/probeVideo.js';
 
 /** A rectangle in full-frame pixels of the displayed video: x, y of the top-left corner, width, height. */
 export interface RegionPx {
@@ -32,6 +33,8 @@ export interface TrackOptions {
   texture_radii_px?: [number, number];
   ffmpeg?: string;
   ffprobe?: string;
+  /** The video's header, already read with probeVideoHeader (saves one ffprobe run). */
+  header?: VideoHeader;
   signal?: AbortSignal;
   onProgress?: (p: { frames: number; t_s: number; duration_s: number }) => void;
 }
@@ -39,7 +42,7 @@ export interface TrackOptions {
 /** Every option name trackVideo reads (a misspelt one would otherwise be ignored without a word). */
 const TRACK_OPTION_NAMES: readonly (keyof TrackOptions)[] = [
   'roi', 'centre', 'marker', 'markers', 'colour_tolerance', 'anchor', 'from_s', 'to_s', 'tilt_deg', 'tilt_axis_deg',
-  'texture_radii_px', 'ffmpeg', 'ffprobe', 'signal', 'onProgress',
+  'texture_radii_px', 'ffmpeg', 'ffprobe', 'header', 'signal', 'onProgress',
 ];
 /** Spellings people reach for, and the option meant. */
 const TRACK_OPTION_SPELLINGS: Record<string, keyof TrackOptions> = { center: 'centre', color_tolerance: 'colour_tolerance', tolerance: 'colour_tolerance', from: 'from_s', to: 'to_s', tilt: 'tilt_deg' };

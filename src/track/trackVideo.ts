@@ -51,7 +51,7 @@ const OFF_CIRCLE_WARN_SHARE = 0.1;
 export async function trackVideo(path: string, options: TrackOptions = {}): Promise<TrackResult> {
   checkTrackOptionNames(options);
   const mode = parseMarker(options.marker ?? 'bright');
-  const header = await probeVideoHeader(path, { ffprobe: options.ffprobe });
+  const header = options.header ?? (await probeVideoHeader(path, { ffprobe: options.ffprobe }));
   const roi = options.roi !== undefined ? toRegion('--roi', options.roi) : { x: 0, y: 0, w: header.width, h: header.height };
   const regionWords = options.roi !== undefined ? `--roi ${roi.x},${roi.y},${roi.w},${roi.h}` : `the whole ${roi.w}×${roi.h} frame (no --roi given)`;
   checkInside('--roi', roi, header.width, header.height);
