@@ -3,6 +3,7 @@ import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
 import { uniformInt } from 'pure-rand/distribution/uniformInt';
 import { EllipseFitFailure, type Ellipse } from './fitEllipse.js';
 import type { RobustEllipseOptions } from './fitEllipseRobust.js';
+import { median, percentileInterval95, sampleSd } from './sampleSummaries.js';
 
 /** One marker's path: points in full-frame px (x right, y down). */
 export interface MarkerPath {
@@ -126,11 +127,11 @@ export function fitConcentricEllipses(paths: MarkerPath[], options: ConcentricEl
     axis_ratio: main[0].semi_minor_px / main[0].semi_major_px,
     inlier,
     rms_px: Math.sqrt(ss / Math.max(1, kept)),
-    se: { cx_px: centre ? 0 : sd(bx), cy_px: centre ? 0 : sd(by), axis_ratio: sd(br), major_axis_deg: sd(ba) },
+    se: { cx_px: centre ? 0 : sampleSd(bx), cy_px: centre ? 0 : sampleSd(by), axis_ratio: sampleSd(br), major_axis_deg: sampleSd(ba) },
     ci95: {
-      cx_px: centre ? [centre.x_px, centre.x_px] : percentiles(bx),
-      cy_px: centre ? [centre.y_px, centre.y_px] : percentiles(by),
-      axis_ratio: percentiles(br),
+      cx_px: centre ? [centre.x_px, centre.x_px] : percentileInterval95(bx),
+      cy_px: centre ? [centre.y_px, centre.y_px] : percentileInterval95(by),
+      axis_ratio: percentileInterval95(br),
     },
   };
 }
@@ -282,25 +283,4 @@ function toEllipses(sh: Shape): Ellipse[] {
     semi_minor_px: s / Math.sqrt(1 + mAbs),
     major_axis_deg: deg,
   }));
-}
-
-function median(values: number[]): number {
-  if (values.length === 0) return 0;
-  const s = [...values].sort((a, b) => a - b);
-  const h = s.length >> 1;
-  return s.length % 2 ? s[h] : (s[h - 1] + s[h]) / 2;
-}
-
-function sd(values: number[]): number {
-  const n = values.length;
-  if (n < 2) return Number.NaN;
-  const mean = values.reduce((s, v) => s + v, 0) / n;
-  return Math.sqrt(values.reduce((s, v) => s + (v - mean) ** 2, 0) / (n - 1));
-}
-
-function percentiles(values: number[]): [number, number] {
-  if (values.length === 0) return [Number.NaN, Number.NaN];
-  const s = [...values].sort((a, b) => a - b);
-  const at = (q: number): number => s[Math.min(s.length - 1, Math.max(0, Math.round(q * (s.length - 1))))];
-  return [at(0.025), at(0.975)];
 }

@@ -1,6 +1,7 @@
 import { xoroshiro128plus } from 'pure-rand/generator/xoroshiro128plus';
 import { uniformInt } from 'pure-rand/distribution/uniformInt';
 import { type Ellipse, EllipseFitFailure, fitCentredEllipse, fitEllipse } from './fitEllipse.js';
+import { median, percentileInterval95, sampleSd } from './sampleSummaries.js';
 
 export interface RobustEllipseOptions {
   /** Known centre, px: fit only the axes and orientation about it. */
@@ -104,11 +105,11 @@ export function fitEllipseRobust(x_px: Float64Array, y_px: Float64Array, options
     ellipse,
     inlier,
     rms_px: rms,
-    se: { cx_px: options.centre ? 0 : sd(bx), cy_px: options.centre ? 0 : sd(by), axis_ratio: sd(br), major_axis_deg: sd(ba) },
+    se: { cx_px: options.centre ? 0 : sampleSd(bx), cy_px: options.centre ? 0 : sampleSd(by), axis_ratio: sampleSd(br), major_axis_deg: sampleSd(ba) },
     ci95: {
-      cx_px: options.centre ? [ellipse.cx_px, ellipse.cx_px] : percentiles(bx),
-      cy_px: options.centre ? [ellipse.cy_px, ellipse.cy_px] : percentiles(by),
-      axis_ratio: percentiles(br),
+      cx_px: options.centre ? [ellipse.cx_px, ellipse.cx_px] : percentileInterval95(bx),
+      cy_px: options.centre ? [ellipse.cy_px, ellipse.cy_px] : percentileInterval95(by),
+      axis_ratio: percentileInterval95(br),
     },
   };
 }
@@ -144,31 +145,6 @@ function select(x: Float64Array, y: Float64Array, keep: Uint8Array): { xs: Float
     j++;
   }
   return { xs, ys };
-}
-
-function median(values: number[]): number {
-  if (values.length === 0) return 0;
-  const s = [...values].sort((a, b) => a - b);
-  const m = s.length >> 1;
-  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
-}
-
-function sd(values: number[]): number {
-  const n = values.length;
-  if (n < 2) return Number.NaN;
-  let mean = 0;
-  for (const v of values) mean += v;
-  mean /= n;
-  let ss = 0;
-  for (const v of values) ss += (v - mean) ** 2;
-  return Math.sqrt(ss / (n - 1));
-}
-
-function percentiles(values: number[]): [number, number] {
-  if (values.length === 0) return [Number.NaN, Number.NaN];
-  const s = [...values].sort((a, b) => a - b);
-  const at = (p: number): number => s[Math.min(s.length - 1, Math.max(0, Math.round(p * (s.length - 1))))];
-  return [at(0.025), at(0.975)];
 }
 
 /** fitEllipseRobust about the given centre (if any), or null when the points do not lie on an ellipse (too few, collinear, a hyperbola). */
