@@ -3,6 +3,7 @@ import { findSpots, type Window } from './findSpots.js';
 import { fitCircle } from './fitCircle.js';
 import { MarkerPathStore } from './MarkerPathStore.js';
 import { offCircle } from './pathCheck.js';
+import { upperMedian } from './robustSpread.js';
 import { createSpotFollower, type SpotFollower } from './spotFollower.js';
 
 /** Largest number of candidate tracks started at the first frame with spots. */
@@ -87,7 +88,7 @@ export function circularPathScore(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
   const inside = c.cx_px >= Math.min(...xs) && c.cx_px <= Math.max(...xs) && c.cy_px >= Math.min(...ys) && c.cy_px <= Math.max(...ys);
   if (!inside) return 0;
   const r = xs.map((x, i) => Math.hypot(x - c.cx_px, ys[i] - c.cy_px));
-  const rMedian = [...r].sort((a, b) => a - b)[r.length >> 1];
+  const rMedian = upperMedian(r);
   if (!(rMedian >= MIN_PATH_RADIUS_PX)) return 0;
   const band = Math.max(2, RADIUS_BAND * rMedian);
   const ix: number[] = [];

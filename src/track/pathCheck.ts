@@ -1,3 +1,4 @@
+import { robustSpread } from './robustSpread.js';
 import type { ViewGeometry } from './rotorPlaneAngle.js';
 
 /** A kept detection is off the marker's circle when its rotor-plane radius departs from the median by more than this share of it, at most. */
@@ -41,10 +42,7 @@ export function offCircle(x_px: ArrayLike<number>, y_px: ArrayLike<number>, view
   }
   const off = new Uint8Array(n);
   if (finite.length === 0) return { off, median_radius_px: NaN, band_px: NaN };
-  finite.sort((a, b) => a - b);
-  const median = finite[finite.length >> 1];
-  const deviations = finite.map((v) => Math.abs(v - median)).sort((a, b) => a - b);
-  const sigma = 1.4826 * deviations[deviations.length >> 1];
+  const { median, sigma } = robustSpread(finite);
   const band = Math.max(OFF_CIRCLE_MIN_PX, Math.min(OFF_CIRCLE_SHARE * median, OFF_CIRCLE_SIGMAS * sigma));
   for (let i = 0; i < n; i++) if (Number.isFinite(r[i]) && Math.abs(r[i] - median) > band) off[i] = 1;
   return { off, median_radius_px: median, band_px: band };

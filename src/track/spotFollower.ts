@@ -1,4 +1,5 @@
 import { findSpots, type Window } from './findSpots.js';
+import { robustSpread, upperMedian } from './robustSpread.js';
 
 /** One frame's marker measurement, in the signal image's pixel coordinates; NaN position when lost. */
 export interface SpotReading {
@@ -87,10 +88,6 @@ export function createSpotFollower(options: SpotFollowerOptions) {
     return out;
   };
 
-  const medianOf = (v: number[]): number => {
-    const s = [...v].sort((p, q) => p - q);
-    return s[s.length >> 1];
-  };
 
   return {
     /** Measures the marker in this frame's signal image (width px per row), at frame time t_s. */
@@ -109,7 +106,7 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       }
       const preds = predict(t_s);
       const pred = preds.length ? preds[0] : null;
-      const typicalArea = areas.length >= 3 ? medianOf(areas) : 0;
+      const typicalArea = areas.length >= 3 ? upperMedian(areas) : 0;
       const spotRadius = typicalArea > 0 ? Math.sqrt(typicalArea / Math.PI) : 0;
       let gate = Infinity;
       let candidate: { x: number; y: number } | null = pred;
@@ -164,7 +161,7 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       if (areas.length >= 3 && (ratio > areaFactor || ratio < 1 / areaFactor)) return lost('lost:shape');
       // a marker whose size has kept steady (a slow one, same pixels every frame) is held to that: a particle
       // touching it merges into a blob a third bigger, still inside the fixed factor, and would drag the track away
-      if (areas.length >= AREA_HISTORY && Math.abs(spot.area_px - typicalArea) > areaBand(areas, typicalArea)) return lost('lost:shape');
+      if (areas.length >= AREA_HISTORY && Math.abs(spot.area_px - typicalArea) > areaBand(areas)) return lost('lost:shape');
       // accepted
       if (pred && hist.length >= 3 && lostRun === 0) {
         misses.push(miss);
@@ -192,11 +189,10 @@ export function createSpotFollower(options: SpotFollowerOptions) {
 
 export type SpotFollower = ReturnType<typeof createSpotFollower>;
 
-/** How far a spot's area may lie from the typical (median) area of the recent ones, px. */
-function areaBand(areas: readonly number[], typical: number): number {
-  const deviations = areas.map((a) => Math.abs(a - typical)).sort((p, q) => p - q);
-  const sigma = 1.4826 * deviations[deviations.length >> 1];
-  return Math.max(AREA_MIN_BAND_PX, AREA_MIN_BAND_SHARE * typical, AREA_SIGMAS * sigma);
+/** How far a spot's area may lie from the typical (upper median) area of the recent ones, px. */
+function areaBand(areas: readonly number[]): number {
+  const { median, sigma } = robustSpread(areas);
+  return Math.max(AREA_MIN_BAND_PX, AREA_MIN_BAND_SHARE * median, AREA_SIGMAS * sigma);
 }
 
 /** Whether the first and last kept positions lie less than SLOW_PX_PER_FRAME apart per kept step between them. */

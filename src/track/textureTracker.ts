@@ -3,6 +3,7 @@ import { CircularShiftEstimator, type RowSpectra } from './circularShift.js';
 import { createPolarGrid, polarUnwrap, type GrayCrop, type PolarGrid } from './polarUnwrap.js';
 import { refineTextureCentre } from './textureCentre.js';
 import { applyRowWeights, outlierWeights, shiftRowWeights } from './textureOutlierWeights.js';
+import { upperMedian } from './robustSpread.js';
 
 export type { GrayCrop } from './polarUnwrap.js';
 
@@ -246,7 +247,7 @@ export function createTextureTracker(options: TextureTrackerOptions): TextureTra
       }
       if (!(best.quality >= minQuality) || !Number.isFinite(best.angle_deg)) return { angle_deg: Number.NaN, quality: 0 };
       active = bestIndex;
-      const typical = recentQuality.length >= 5 ? [...recentQuality].sort((a, b) => a - b)[recentQuality.length >> 1] : 1;
+      const typical = recentQuality.length >= 5 ? upperMedian(recentQuality) : 1;
       recentQuality.push(best.quality);
       if (recentQuality.length > 15) recentQuality.shift();
       if (best.quality < Math.min(robustBelow, typical - 0.005)) best = measure(references[active], current, predicted, true);
