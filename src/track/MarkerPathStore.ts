@@ -1,3 +1,4 @@
+import { doubleCapacity } from './doubleCapacity.js';
 import type { SpotReading } from './spotFollower.js';
 
 /**
@@ -28,11 +29,7 @@ export class MarkerPathStore {
   /** Appends one frame: per marker, the reading and its measured and steadied full-frame positions (px). */
   push(readings: SpotReading[], measured: { x_px: number; y_px: number }[], steadied: { x_px: number; y_px: number }[]): void {
     if (this.n === this.x_px[0].length) {
-      const grow = (cols: Float64Array[]) => cols.map((a) => {
-        const next = new Float64Array(a.length * 2);
-        next.set(a);
-        return next;
-      });
+      const grow = (cols: Float64Array[]) => cols.map(doubleCapacity);
       this.x_px = grow(this.x_px);
       this.y_px = grow(this.y_px);
       this.sx_px = grow(this.sx_px);

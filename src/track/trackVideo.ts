@@ -17,6 +17,7 @@ import { createMarkerHypotheses, pickMarkerTrack } from './markerHypotheses.js';
 import { offCircle } from './pathCheck.js';
 import { createMarkerFollowers } from './followMarkers.js';
 import { MarkerPathStore } from './MarkerPathStore.js';
+import { doubleCapacity } from './doubleCapacity.js';
 import { multiMarkerGeometry } from './multiMarkerGeometry.js';
 import { checkInside, checkTrackOptionNames, parseMarker, toRegion, type MarkerMode, type RegionPx, type TrackOptions } from './TrackOptions.js';
 import { TrackingError } from './TrackingError.js';
@@ -506,19 +507,14 @@ class FrameStore {
   flag: string[] = [];
   push(frame: number, t: number, x: number, y: number, sx: number, sy: number, a: number, q: number, flag: string): void {
     if (this.n === this.t.length) {
-      const grow = <T extends Float64Array | Int32Array>(arr: T): T => {
-        const next = new (arr.constructor as new (n: number) => T)(arr.length * 2);
-        next.set(arr);
-        return next;
-      };
-      this.frame = grow(this.frame);
-      this.t = grow(this.t);
-      this.x = grow(this.x);
-      this.y = grow(this.y);
-      this.sx = grow(this.sx);
-      this.sy = grow(this.sy);
-      this.a = grow(this.a);
-      this.q = grow(this.q);
+      this.frame = doubleCapacity(this.frame);
+      this.t = doubleCapacity(this.t);
+      this.x = doubleCapacity(this.x);
+      this.y = doubleCapacity(this.y);
+      this.sx = doubleCapacity(this.sx);
+      this.sy = doubleCapacity(this.sy);
+      this.a = doubleCapacity(this.a);
+      this.q = doubleCapacity(this.q);
     }
     const i = this.n++;
     this.frame[i] = frame;
