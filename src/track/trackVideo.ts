@@ -276,7 +276,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
       if (canFit && !fit) {
         const ignored: string[] = [];
         ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewWithoutPathFit(cx, cy, { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg }, arcAbout, 'The marker', ignored));
-        warnings.push(`The marker's detections do not lie on an ellipse about --center, so the view could not be measured; angles assume a square-on camera${options.tilt_deg === undefined ? ' (give --tilt deg if it is not)' : ''}; check preview.png for something else followed.`);
+        warnings.push(`The marker's detections do not lie on an ellipse about --center, so the view could not be measured; ${options.tilt_deg === undefined ? 'angles assume a square-on camera (give --tilt deg if it is not)' : `angles use the given --tilt ${options.tilt_deg}°`}; check preview.png for something else followed.`);
       } else if (fit) {
         // frames far off the fitted path are not trusted
         for (let k = 0; k < good.length; k++) {
