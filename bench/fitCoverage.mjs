@@ -4,7 +4,7 @@
 // (a non-zero offset moves every seed, to check that the figures are not an artefact of one seed set)
 import { fitSteadyRate } from '../dist/fit/steadyRate.js';
 import { linearLeastSquares } from '../dist/fit/linearLeastSquares.js';
-import { simulateSteady, normalSource, SCENARIOS } from './fitScenarios.mjs';
+import { simulateSteady, normalSource, SCENARIOS, SMALL_WANDER_SCENARIOS } from './fitScenarios.mjs';
 import jstatModule from 'jstat';
 
 const { jStat } = jstatModule;
@@ -16,9 +16,11 @@ const n = Math.round(seconds * fps);
 const rate = 0.8;
 
 console.log(`steady-rate coverage, ${reps} replicates per scenario, ${n} frames (${seconds} s at ${fps} fps), true rate ${rate} deg/s, nominal 95%, seed offset ${offset}`);
-console.log('scenario | coverage | naive OLS coverage | mean se / sd of estimate | share with a walk part | median df (jackknife alone) | segment test p < 0.05 | p < 0.01 | ms per fit | coverage of fits with / without a walk part');
-for (const [si, sc] of SCENARIOS.entries()) {
+console.log('scenario | coverage | allowing for hidden wander (median half-width ratio) | naive OLS coverage | mean se / sd of estimate | share with a walk part | median df (jackknife alone) | segment test p < 0.05 | p < 0.01 | ms per fit | coverage of fits with / without a walk part');
+for (const [si, sc] of [...SCENARIOS, ...SMALL_WANDER_SCENARIOS].entries()) {
   let cover = 0;
+  let coverWander = 0;
+  const widen = [];
   let coverNaive = 0;
   let integrated = 0;
   let integratedCover = 0;
@@ -35,6 +37,9 @@ for (const [si, sc] of SCENARIOS.entries()) {
     const e = fit.result.rate_deg_s;
     const covers = e.ci[0] <= rate && rate <= e.ci[1];
     if (covers) cover++;
+    const w = fit.result.wander_allowance.rate_deg_s;
+    if (w.ci[0] <= rate && rate <= w.ci[1]) coverWander++;
+    widen.push((w.ci[1] - w.ci[0]) / (e.ci[1] - e.ci[0]));
     if (fit.noise.walk_deg2_per_s > 0) {
       integrated++;
       if (covers) integratedCover++;
@@ -56,7 +61,7 @@ for (const [si, sc] of SCENARIOS.entries()) {
   const median = (a) => a.sort((x, y) => x - y)[Math.floor(a.length / 2)];
   const share = (k, of) => (of > 0 ? `${((100 * k) / of).toFixed(1)}%` : '–');
   console.log(
-    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${median(dfs).toFixed(1)} (${median(jackDfs).toFixed(1)}) | ${(100 * seg05 / reps).toFixed(1)}% | ${(100 * seg01 / reps).toFixed(1)}% | ${ms.toFixed(1)} ms/fit | ${share(integratedCover, integrated)} / ${share(cover - integratedCover, reps - integrated)}`,
+    `${sc.name} | ${(100 * cover / reps).toFixed(1)}% | ${(100 * coverWander / reps).toFixed(1)}% (${median(widen).toFixed(2)}) | ${(100 * coverNaive / reps).toFixed(1)}% | ${(seSum / reps / sd).toFixed(3)} | ${(100 * integrated / reps).toFixed(0)}% | ${median(dfs).toFixed(1)} (${median(jackDfs).toFixed(1)}) | ${(100 * seg05 / reps).toFixed(1)}% | ${(100 * seg01 / reps).toFixed(1)}% | ${ms.toFixed(1)} ms/fit | ${share(integratedCover, integrated)} / ${share(cover - integratedCover, reps - integrated)}`,
   );
 }
 

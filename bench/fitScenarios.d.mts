@@ -14,3 +14,4 @@ export interface SteadySimulation {
 export function normalSource(seed: number): () => number;
 export function simulateSteady(o: SteadySimulation): { t_s: Float64Array; angle_deg: Float64Array };
 export const SCENARIOS: { name: string; noise: Omit<SteadySimulation, 'seed' | 'n' | 'rate_deg_s'> }[];
+export const SMALL_WANDER_SCENARIOS: { name: string; noise: Omit<SteadySimulation, 'seed' | 'n' | 'rate_deg_s'> }[];

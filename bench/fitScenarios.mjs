@@ -91,3 +91,14 @@ export const SCENARIOS = [
   { name: 'AR(1) + random walk', noise: { ar_phi: 0.95, ar_sd_deg: 0.5, walk_deg_sqrt_s: 0.3 } },
   { name: 'AR(1) + random walk, 3% frames lost', noise: { ar_phi: 0.95, ar_sd_deg: 0.5, walk_deg_sqrt_s: 0.3, lost_share: 0.03 } },
 ];
+
+/**
+ * Rate wander between "none" and the large walk above: too small for one 60 s window to detect reliably,
+ * large enough to matter for the slope (invented rig, same rotor).
+ */
+export const SMALL_WANDER_SCENARIOS = [
+  { name: 'white + small walk 0.01', noise: { white_deg: 0.5, walk_deg_sqrt_s: 0.01 } },
+  { name: 'white + small walk 0.02', noise: { white_deg: 0.5, walk_deg_sqrt_s: 0.02 } },
+  { name: 'AR(1) + small walk 0.05', noise: { ar_phi: 0.95, ar_sd_deg: 0.5, walk_deg_sqrt_s: 0.05 } },
+  { name: 'AR(1) + small walk 0.09', noise: { ar_phi: 0.95, ar_sd_deg: 0.5, walk_deg_sqrt_s: 0.09 } },
+];

@@ -38,6 +38,10 @@ export function fitSummaryText(report: FitReport, outPath: string): string {
   if (s && report.model === 'steady') {
     lines.push(`rate ${show(s.rate_deg_s, 'deg/s')} = ${show(s.rate_rpm, 'rpm')}`);
     lines.push(`differs from zero: p = ${s.zero_test.p_value.toPrecision(3)}; smallest detectable rate ${s.min_detectable_deg_s.toPrecision(3)} deg/s`);
+    const w = s.wander_allowance;
+    if (w && w.hidden_walk_bound_deg_per_sqrt_s !== null) {
+      lines.push(`allowing for rate wander up to ${w.hidden_walk_bound_deg_per_sqrt_s.toPrecision(2)} deg/√s (too small to detect here): ${show(w.rate_deg_s, 'deg/s')}, differs from zero: p = ${w.zero_test.p_value.toPrecision(3)}`);
+    }
     if (s.zero_test.margin_deg_s !== undefined) {
       lines.push(`within ±${s.zero_test.margin_deg_s} deg/s of zero: ${s.zero_test.equivalent_to_zero ? 'yes' : 'not shown'} (TOST p = ${s.zero_test.equivalence_p_value!.toPrecision(3)})`);
     }

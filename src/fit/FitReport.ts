@@ -39,6 +39,19 @@ export interface SteadyResult {
   segment_p_value?: number;
   /** Optional: the angle-noise model behind the interval (white + AR(1) + random walk, fitted to the variogram). */
   noise?: SteadyNoise;
+  /** Optional: the rate allowing for a rate wander too small for this window to detect. */
+  wander_allowance?: WanderAllowance;
+}
+
+/**
+ * The steady rate once more, allowing for a rate wander (a random walk of the angle) that the window is too short
+ * to detect: wider than rate_deg_s when the noise model found no walk, the same when it found one.
+ */
+export interface WanderAllowance {
+  /** Largest walk this window cannot rule out (one-sided, at the report's level), deg/√s; null when the noise model holds a walk. */
+  hidden_walk_bound_deg_per_sqrt_s: number | null;
+  rate_deg_s: Estimate;
+  zero_test: ZeroTest;
 }
 
 /** The angle noise the steady fit found: SDs in deg, the AR correlation time in s, the walk in deg/√s. */

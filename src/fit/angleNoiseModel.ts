@@ -84,6 +84,29 @@ export function noiseInformation(model: AngleNoiseModel, delta_s: number, frames
 }
 
 /**
+ * Whittle information about the walk diffusion q on its linear scale, (deg²/s)⁻², at the model's own q (the
+ * usual case: a model without a walk part, q = 0): I_qq = Σ_j (δ/f(λ_j))² over the Fourier frequencies
+ * 0 < λ_j < π of the m = frames − 1 increments, with f the increment spectrum of noiseInformation (∂f/∂q = δ).
+ * At q = 0 this is the information of the score test for an added walk; it is dominated by the lowest
+ * frequencies, where the differenced stationary noise has almost no power. Infinity when f vanishes there.
+ */
+export function walkInformation(model: AngleNoiseModel, delta_s: number, frames: number): number {
+  const m = Math.max(0, Math.round(frames) - 1);
+  const white = model.white_var_deg2;
+  const s2 = model.ar_var_deg2;
+  const walk = model.walk_deg2_per_s * delta_s;
+  const phi = s2 > 0 ? Math.exp(-delta_s / model.ar_time_s) : 0;
+  let info = 0;
+  for (let j = 1; 2 * j < m; j++) {
+    const c = Math.cos((2 * Math.PI * j) / m);
+    const f = walk + (2 - 2 * c) * (white + (s2 * (1 - phi * phi)) / (1 - 2 * phi * c + phi * phi));
+    if (!(f > 0)) return Infinity;
+    info += (delta_s / f) ** 2;
+  }
+  return info;
+}
+
+/**
  * Range of AR correlation times fitAngleNoiseModel searches, s: from half the mean frame interval to a fraction
  * of the window (options.maxCorrelationFraction, default 1/80), for a window of duration_s over `frames` frames.
  */

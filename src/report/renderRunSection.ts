@@ -43,6 +43,10 @@ function resultTable(fit: FitReport): SafeHtml {
     rows.push(html`<tr><th scope="row">Steady rate</th><td class="num">${r.rpm}</td><td>rpm</td></tr>`);
     rows.push(html`<tr><th scope="row">Differs from zero</th><td class="num">p ${pText(s.zero_test.p_value)}</td><td>two-sided, ${formatSig(s.zero_test.df)} df</td></tr>`);
     if (s.zero_test.margin_deg_s !== undefined) rows.push(html`<tr><th scope="row">Equivalent to zero (±${formatSig(s.zero_test.margin_deg_s)} deg/s)</th><td class="num">${s.zero_test.equivalent_to_zero ? 'yes' : 'no'}, p ${pText(s.zero_test.equivalence_p_value ?? Number.NaN)}</td><td>two one-sided tests</td></tr>`);
+    const w = s.wander_allowance;
+    if (w && w.hidden_walk_bound_deg_per_sqrt_s !== null) {
+      rows.push(html`<tr><th scope="row">Allowing for undetected rate wander (up to ${formatSig(w.hidden_walk_bound_deg_per_sqrt_s, 2)} deg/√s)</th><td class="num">${formatInterval(w.rate_deg_s.value, w.rate_deg_s.ci, w.rate_deg_s.se)}<br>differs from zero: p ${pText(w.zero_test.p_value)}</td><td>deg/s</td></tr>`);
+    }
     rows.push(html`<tr><th scope="row">Smallest detectable rate</th><td class="num">${formatSig(s.min_detectable_deg_s, 2)} (${formatSig(s.min_detectable_deg_s / 6, 2)} rpm)</td><td>deg/s, 80% power</td></tr>`);
   }
   if (fit.model === 'spinup' && fit.spinup) {

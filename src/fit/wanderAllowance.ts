@@ -1,0 +1,75 @@
+import jstatModule from 'jstat';
+import { walkInformation, type AngleNoiseModel } from './angleNoiseModel.js';
+import { restrictedLogLikelihood } from './stateSpaceGls.js';
+
+const { jStat } = jstatModule;
+
+/**
+ * Upper confidence bound (one-sided, at `level`) of a random-walk diffusion q (deg²/s) added to a noise model
+ * that has none — the largest rate wander the window does not rule out. The other noise parameters stay as
+ * fitted; q is profiled by the restricted likelihood (restrictedLogLikelihood), and the bound is the largest q
+ * whose likelihood is within z²/2 of the best (the likelihood-ratio interval, one-sided: z = z_level; with the
+ * best q on the boundary 0 this is the usual one-sided bound, Self & Liang 1987, J. Am. Stat. Assoc. 82:605).
+ * The search runs on a doubling grid from the score test's detection scale 1/√I_qq (walkInformation, Whittle),
+ * stopping three points after the likelihood has fallen below the cut, then bisects in ln q. Rows [lo, hi) of t (s, increasing) and y (deg).
+ */
+export function walkUpperBound(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel, level: number): number {
+  const frames = hi - lo;
+  const delta_s = (t[hi - 1]! - t[lo]!) / Math.max(1, frames - 1);
+  const info = walkInformation({ ...model, walk_deg2_per_s: 0 }, delta_s, frames);
+  const scale = Number.isFinite(info) && info > 0 ? 1 / Math.sqrt(info) : 0;
+  if (!(scale > 0)) return 0;
+  const z = jStat.normal.inv(level, 0, 1);
+  const like = (q: number): number => restrictedLogLikelihood(t, y, lo, hi, { ...model, walk_deg2_per_s: q });
+  // walk up the grid until the likelihood has fallen below the cut for good (it has one peak in practice)
+  const cutBelow = (z * z) / 2;
+  let best = like(0);
+  let lastInside = 0;
+  let below = 0;
+  for (let k = -4; k <= 16; k++) {
+    const q = scale * 2 ** k;
+    const v = like(q);
+    if (v > best) best = v;
+    if (v >= best - cutBelow) { lastInside = q; below = 0; }
+    else if (++below >= 3) {
+      // bisect in ln q between the last q inside and the next grid point
+      let inQ = Math.max(lastInside, scale * 2 ** -5);
+      let outQ = 2 * inQ;
+      for (let step = 0; step < 8 && outQ / inQ > 1.01; step++) {
+        const mid = Math.sqrt(inQ * outQ);
+        if (like(mid) >= best - cutBelow) inQ = mid;
+        else outQ = mid;
+      }
+      return Math.sqrt(inQ * outQ);
+    }
+  }
+  return scale * 2 ** 16; // still inside at the grid's end: a wander far above the detection scale
+}
+
+/** A slope variance that allows for a walk up to a bound, with the Student-t df of that variance. */
+export interface WanderAllowedVariance {
+  /** Slope variance, (deg/s)². */
+  variance: number;
+  /** Satterthwaite degrees of freedom. */
+  df: number;
+}
+
+/**
+ * The steady slope's variance when the angle may carry a random walk up to q_U (deg²/s) that the noise model did
+ * not include. Such a walk adds q·trueVar to the slope's variance but only q·jackknifeVar to the expected
+ * jackknife variance (walkSensitivity in steadyRate.ts: the batches see a slow walk only in part), so the part
+ * the jackknife cannot see, q_U·max(0, trueVar − jackknifeVar), is added to the jackknife variance J. The added
+ * part is a fixed allowance, so by Satterthwaite (1946) the df grow with it: ν = ν_J·((J + allowance)/J)²,
+ * at most 1000. A bound, not an estimate: it keeps the interval honest for any walk up to q_U (walkUpperBound) at the price of
+ * a wider interval when there is none.
+ * @param jackknifeVar_deg2_s2 the jackknife slope variance J (after its bias factor), (deg/s)²
+ * @param jackknifeDf ν_J, the jackknife's own Satterthwaite df
+ * @param sensitivity slope variance per unit walk diffusion: true, and expected in the (bias-corrected) jackknife
+ */
+export function wanderAllowedVariance(jackknifeVar_deg2_s2: number, jackknifeDf: number, walkBound_deg2_s: number,
+  sensitivity: { trueVar: number; jackknifeVar: number }): WanderAllowedVariance {
+  const allowance = walkBound_deg2_s * Math.max(0, sensitivity.trueVar - sensitivity.jackknifeVar);
+  const variance = jackknifeVar_deg2_s2 + allowance;
+  const df = jackknifeVar_deg2_s2 > 0 ? Math.min(1000, jackknifeDf * (variance / jackknifeVar_deg2_s2) ** 2) : jackknifeDf;
+  return { variance, df };
+}
