@@ -40,10 +40,11 @@ export interface ReadFramesOptions {
   reuse_buffers?: boolean;
 }
 
-/** Matches the per-frame line of ffmpeg's showinfo filter: "n: 12 pts: 480000 ...". */
-const SHOWINFO_LINE = /^\[Parsed_showinfo_\d+ @ [^\]]+\] n:\s*(\d+)\s+pts:\s*(\S+)/;
-/** Other showinfo output (configuration and side-data lines), kept out of the error tail. */
-const SHOWINFO_OTHER = /^\[Parsed_showinfo_\d+ @ /;
+/**
+ * Matches the per-frame line of `setpts=print(PTS)`: the frame's timestamp printed by ffmpeg's expression
+ * evaluator ("%f", e.g. "480000.000000", "nan" without one), with the "[Eval @ 0x…] " prefix some builds add.
+ */
+const PTS_LINE = /^(?:\[Eval @ [^\]]+\] )?(-?\d+\.\d+|-?nan|-?inf)$/i;
 /** Timestamps pass through the filter graph in microseconds (settb=AVTB), so t_s is exact to 1 µs. */
 const TICKS_PER_S = 1_000_000;
 
@@ -64,7 +65,8 @@ function fifoQueueFrames(frameBytes: number): number {
  * Decodes a video to frames, one per decoded frame, each with its own presentation time.
  * One ffmpeg process decodes, rotates for display, crops to the ROI and converts to gray or RGB;
  * its stdout is read with backpressure (a slow consumer pauses ffmpeg, memory stays flat).
- * Per-frame times come from ffmpeg's showinfo filter on stderr, in the same process as the pixels,
+ * Per-frame times come from the filter graph itself (setpts prints each frame's timestamp on stderr, one
+ * short line per frame where the showinfo filter wrote fifteen pieces), in the same process as the pixels,
  * so times and frames cannot drift apart, even after a seek or where an edit list hides frames (a
  * second ffprobe process listing packets would have to guess which frames ffmpeg outputs after a
  * seek). Frames pass through with `-vsync passthrough`, or
@@ -88,15 +90,15 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
   const channels = pixels === 'gray' ? 1 : 3;
   const frameBytes = roi.w * roi.h * channels;
 
-  // The frames go to stdout; a split-off 1×1 crop of each (no pixel copy) feeds showinfo, whose
-  // per-frame line carries the presentation time at negligible cost (no checksum of the real frame).
+  // The frames go to stdout; setpts leaves each timestamp as it is and prints it (one line per frame, written
+  // before the frame reaches the output, so a frame's time is on stderr before its last bytes are on stdout).
   const chain = [
     ...(options.roi ? [`crop=${roi.w}:${roi.h}:${roi.x}:${roi.y}:exact=1`] : []),
     `format=${pixels === 'gray' ? 'gray' : 'rgb24'}`,
     'settb=AVTB',
-    'split[frames][times]',
+    'setpts=print(PTS)',
   ];
-  const graph = `[0:${header.stream_index}]${chain.join(',')};[times]crop=1:1:0:0,showinfo,nullsink`;
+  const graph = `[0:${header.stream_index}]${chain.join(',')}[frames]`;
   const seek_s = Number.isFinite(from_s) ? from_s - header.start_s - 0.002 : 0;
   const args = [
     '-hide_banner', '-nostats', '-nostdin', '-loglevel', 'info', '-copyts',
@@ -110,17 +112,17 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
     '-f', 'fifo', '-fifo_format', 'rawvideo', '-queue_size', String(fifoQueueFrames(frameBytes)), 'pipe:1',
   ];
 
-  const times: number[] = []; // showinfo times not yet paired with a frame (a handful at most)
+  const times: number[] = []; // printed times not yet paired with a frame (a handful at most)
   let timesEnded = false;
   let wake: (() => void) | undefined;
   const onStderrLine = (line: string): boolean => {
-    const m = SHOWINFO_LINE.exec(line);
+    const m = PTS_LINE.exec(line);
     if (m) {
-      times.push(m[2] === 'NOPTS' ? NaN : Number(m[2]) / TICKS_PER_S);
+      times.push(Number(m[1]) / TICKS_PER_S); // "nan" (no timestamp) → NaN
       wake?.();
       return true;
     }
-    return SHOWINFO_OTHER.test(line);
+    return false;
   };
   const onStderrEnd = (): void => { timesEnded = true; wake?.(); };
   const nextTime = async (): Promise<number | undefined> => {
@@ -147,7 +149,7 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
         filled += n;
         at += n;
         if (filled < frameBytes) continue;
-        // The showinfo line usually arrives before the frame's last bytes: take it without an await.
+        // The time line arrives before the frame's last bytes: usually taken without an await.
         const t_s = times.length > 0 ? times.shift() : await nextTime();
         if (t_s === undefined && options.signal?.aborted) options.signal.throwIfAborted();
         if (t_s === undefined || Number.isNaN(t_s)) {

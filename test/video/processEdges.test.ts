@@ -52,7 +52,7 @@ describe('ffmpeg process edges (stand-in executables)', () => {
   }, 30_000); // the stand-in sleeps 600 s: a reader that ignored the abort would fail this test by its timeout
 
   it('reports a stand-in that dies in the middle of a frame', async () => {
-    const partial = standIn(dir, 'ffmpeg-partial', 'echo "[Parsed_showinfo_3 @ 0x1] n:   0 pts:      0 pts_time:0" >&2\nhead -c 100 /dev/zero\nexit 0');
+    const partial = standIn(dir, 'ffmpeg-partial', 'echo "0.000000" >&2\nhead -c 100 /dev/zero\nexit 0');
     await expect((async () => { for await (const _ of readFrames(clip, { ffmpeg: partial })) { /* none */ } })()).rejects.toThrow(
       `ffmpeg stopped in the middle of frame 0 of ${clip}.`);
   });
