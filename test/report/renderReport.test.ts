@@ -37,6 +37,9 @@ describe('renderReport', () => {
     expect(html).toContain('/lab/day3/manifest.csv');
     expect(html).toMatch(/<th scope="col">Reverse \/ forward \[Fieller 95%\]<\/th>/);
     expect(html).toContain('rpm');
+    // each steady run also shows the interval that allows for a rate wander too small to detect
+    expect(html).toContain('Allowing for undetected rate wander (up to 0.021 deg/√s)');
+    expect(html).toContain('differs from zero: p = 0.047');
   });
 
   it('escapes every text that comes from a manifest or a file name', () => {

@@ -98,6 +98,7 @@ export async function writeTestRun(outDir: string, spec: TestRun, seed = 1): Pro
       segments: [0, 1, 2, 3].map((k) => ({ t0_s: (k * duration) / 4, t1_s: ((k + 1) * duration) / 4, rate_deg_s: estimate(spec.rate_deg_s + se * rng.normal(), 2 * se) })),
       zero_test: { p_value: Math.abs(spec.rate_deg_s / se) > 3 ? 1e-6 : 0.4, p_sign: 0.01, statistic: spec.rate_deg_s / se, df: 30, ...(margin ? { margin_deg_s: margin, equivalence_p_value: 0.2, equivalent_to_zero: false } : {}) },
       min_detectable_deg_s: 2.9 * se,
+      wander_allowance: { hidden_walk_bound_deg_per_sqrt_s: 0.021, rate_deg_s: estimate(spec.rate_deg_s, 3 * se), zero_test: { p_value: 0.047, p_sign: 0.02, statistic: spec.rate_deg_s / (3 * se), df: 60 } },
     },
     software,
   };
