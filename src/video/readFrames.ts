@@ -42,9 +42,9 @@ export interface ReadFramesOptions {
 
 /**
  * Matches the per-frame line of `setpts=print(PTS)`: the frame's timestamp printed by ffmpeg's expression
- * evaluator ("%f", e.g. "480000.000000", "nan" without one), with the "[Eval @ 0x…] " prefix some builds add.
+ * evaluator ("%f", e.g. "480000.000000", "nan" without one), after any "[name @ 0x…] " prefixes a build adds.
  */
-const PTS_LINE = /^(?:\[Eval @ [^\]]+\] )?(-?\d+\.\d+|-?nan|-?inf)$/i;
+const PTS_LINE = /^(?:\[[^\]]*\] )*(-?\d+\.\d+|-?nan|-?inf)$/i;
 /** Timestamps pass through the filter graph in microseconds (settb=AVTB), so t_s is exact to 1 µs. */
 const TICKS_PER_S = 1_000_000;
 

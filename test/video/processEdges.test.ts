@@ -51,6 +51,17 @@ describe('ffmpeg process edges (stand-in executables)', () => {
     expect(alive(Number(readFileSync(pidFile, 'utf8')))).toBe(false);
   }, 30_000); // the stand-in sleeps 600 s: a reader that ignored the abort would fail this test by its timeout
 
+  it('reads frame times printed with or without a "[name @ 0x…]" prefix, and fails on a frame without one', async () => {
+    // 160×120 gray frames: two whole frames after their time lines, the second prefixed the way some builds log
+    const twoFrames = standIn(dir, 'ffmpeg-two', 'echo "Input #0, a banner line" >&2\necho "100000.000000" >&2\nhead -c 19200 /dev/zero\necho "[Eval @ 0x55d1] 200000.000000" >&2\nhead -c 19200 /dev/zero\nexit 0');
+    const times: number[] = [];
+    for await (const f of readFrames(clip, { ffmpeg: twoFrames })) times.push(f.t_s);
+    expect(times).toEqual([0.1, 0.2]);
+    const noTime = standIn(dir, 'ffmpeg-nan', 'echo "nan" >&2\nhead -c 19200 /dev/zero\nexit 0');
+    await expect((async () => { for await (const _ of readFrames(clip, { ffmpeg: noTime })) { /* none */ } })()).rejects.toThrow(
+      `ffmpeg gave no presentation time for frame 0 of ${clip}; the file's timestamps may be damaged.`);
+  });
+
   it('reports a stand-in that dies in the middle of a frame', async () => {
     const partial = standIn(dir, 'ffmpeg-partial', 'echo "0.000000" >&2\nhead -c 100 /dev/zero\nexit 0');
     await expect((async () => { for await (const _ of readFrames(clip, { ffmpeg: partial })) { /* none */ } })()).rejects.toThrow(
