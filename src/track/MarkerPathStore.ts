@@ -3,7 +3,8 @@ import type { SpotReading } from './spotFollower.js';
 
 /**
  * Growable per-marker, per-frame columns for several markers: the position as measured (x_px, y_px, full-frame
- * px), the position with camera motion taken off (sx_px, sy_px), quality (0–1) and flag ('' when found).
+ * px), the position with camera motion taken off (sx_px, sy_px), quality (0–1), flag ('' when found), the spot's
+ * area (px, NaN when lost) and whether it was held to the steady-size band (1/0; see SpotReading.size_held).
  */
 export class MarkerPathStore {
   readonly count: number;
@@ -13,6 +14,8 @@ export class MarkerPathStore {
   sx_px: Float64Array[];
   sy_px: Float64Array[];
   quality: Float64Array[];
+  area_px: Float64Array[];
+  size_held: Float64Array[];
   flag: string[][];
 
   constructor(count: number) {
@@ -23,6 +26,8 @@ export class MarkerPathStore {
     this.sx_px = make();
     this.sy_px = make();
     this.quality = make();
+    this.area_px = make();
+    this.size_held = make();
     this.flag = Array.from({ length: count }, () => []);
   }
 
@@ -35,6 +40,8 @@ export class MarkerPathStore {
       this.sx_px = grow(this.sx_px);
       this.sy_px = grow(this.sy_px);
       this.quality = grow(this.quality);
+      this.area_px = grow(this.area_px);
+      this.size_held = grow(this.size_held);
     }
     const i = this.n++;
     for (let k = 0; k < this.count; k++) {
@@ -43,6 +50,8 @@ export class MarkerPathStore {
       this.sx_px[k][i] = steadied[k].x_px;
       this.sy_px[k][i] = steadied[k].y_px;
       this.quality[k][i] = readings[k].quality;
+      this.area_px[k][i] = readings[k].area_px ?? Number.NaN;
+      this.size_held[k][i] = readings[k].size_held ? 1 : 0;
       this.flag[k].push(readings[k].flag);
     }
   }

@@ -23,7 +23,7 @@ export type PlaceReading = (x_px: number, y_px: number) => { x_px: number; y_px:
  * first spot are `lost:no-blob`). After the pass, `pickMarkerTrack` keeps the candidate whose detections move
  * on a circle about the centre. Positions are in the signal image's pixels on input; `place` turns them into full-frame ones.
  */
-export function createMarkerHypotheses(options: { region: Window }) {
+export function createMarkerHypotheses(options: { region: Window; centre?: { x_px: number; y_px: number } }) {
   const followers: SpotFollower[] = [];
   let paths: MarkerPathStore | null = null;
   let frames = 0;
@@ -37,7 +37,7 @@ export function createMarkerHypotheses(options: { region: Window }) {
       if (!paths) {
         const spots = findSpots(signal, width, options.region).spots.slice(0, MOST_CANDIDATES);
         if (spots.length > 0) {
-          for (const s of spots) followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px } }));
+          for (const s of spots) followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px }, ...(options.centre ? { centre: options.centre } : {}) }));
           paths = new MarkerPathStore(followers.length);
           for (let i = 0; i < frames; i++) paths.pushLost('lost:no-blob');
         }

@@ -1,5 +1,6 @@
 import { findSpots, type Window } from './findSpots.js';
 import { robustSpread, upperMedian } from './robustSpread.js';
+import { AREA_HISTORY, steadySizeBand } from './steadySizeBand.js';
 
 /** One frame's marker measurement, in the signal image's pixel coordinates; NaN position when lost. */
 export interface SpotReading {
@@ -9,6 +10,10 @@ export interface SpotReading {
   quality: number;
   /** '' when found, else 'lost:no-blob' | 'lost:gate' | 'lost:shape' | 'lost:repeated-frame'. */
   flag: string;
+  /** Area of the accepted spot, px (absent when lost). */
+  area_px?: number;
+  /** True when the accepted spot was held to the steady-size band (false for the first frames after a start, before the marker's size was known). */
+  size_held?: boolean;
 }
 
 export interface SpotFollowerOptions {
@@ -26,15 +31,9 @@ export interface SpotFollowerOptions {
   restart_after?: number;
   /** Where to start, signal-image px: the first search takes the spot nearest this point (default: the biggest spot). */
   start?: { x_px: number; y_px: number };
+  /** The rotation centre when it is known beforehand (--center), signal-image px: a spot off the marker's steady distance from it is refused. */
+  centre?: { x_px: number; y_px: number };
 }
-
-/** Areas kept for the steady-size check, which starts once this many are known. */
-const AREA_HISTORY = 15;
-/** The steady-size band: this many robust SDs of the recent areas (1.4826 × MAD; common practice, no source)… */
-const AREA_SIGMAS = 5;
-/** …but never narrower than this share of the typical area or AREA_MIN_BAND_PX (compression and noise move a small spot's edge pixels). */
-const AREA_MIN_BAND_SHARE = 0.25;
-const AREA_MIN_BAND_PX = 6;
 
 /** Recent positions whose first and last lie less than this far apart per frame between them (px): the marker stands still or creeps (the rotor is at rest, just starting, or nearly at rest). */
 const SLOW_PX_PER_FRAME = 0.5;
@@ -58,12 +57,19 @@ export function createSpotFollower(options: SpotFollowerOptions) {
   const hist: { t: number; x: number; y: number }[] = [];
   const misses: number[] = [];
   const areas: number[] = [];
+  /** Recent distances of the accepted spot from the known centre, px (empty without a centre). */
+  const radii: number[] = [];
+  const centre = options.centre ?? null;
   let lostRun = 0;
   /** Frames of the current lost run in which something of another size sat where the marker was looked for (a particle merged with it). */
   let shapeLosses = 0;
   let start = options.start ?? null;
   /** Where the marker was last accepted, signal-image px: a whole-region search without a prediction takes the spot nearest it. */
   let lastSeen: { x: number; y: number } | null = null;
+
+  /** Whether a spot lies at the marker's steady distance from the known centre (true without a centre or before that distance is known). */
+  const onMarkerCircle = (x: number, y: number): boolean =>
+    !centre || radii.length < AREA_HISTORY || Math.abs(Math.hypot(x - centre.x_px, y - centre.y_px) - upperMedian(radii)) <= steadyRadiusBand(radii);
 
   /** Predictions for time t: along the circle through the first, middle and last kept points (constant
    * angular rate over the last step), and straight on from the last step; the marker may match either. */
@@ -94,10 +100,13 @@ export function createSpotFollower(options: SpotFollowerOptions) {
     update(signal: Uint8Array, width: number, t_s: number): SpotReading {
       if (lostRun >= reacquireAfter) {
         // start afresh: the motion and the size learned before may belong to something else (the search then
-        // takes the spot nearest the last place the marker was seen, not the biggest: a particle is often bigger)
+        // takes the spot nearest the last place the marker was seen, not the biggest: a particle is often bigger).
+        // About a known centre, what was followed kept the marker's distance from it (kept too), so its size is the
+        // marker's: held for one more wait, a blob the marker forms with a particle travelling along its circle is
+        // still refused; a size that really changed while the marker was hidden is learned after a second wait.
         hist.length = 0;
         misses.length = 0;
-        areas.length = 0;
+        if (!centre || lostRun >= 2 * reacquireAfter) areas.length = 0;
       } else if (lostRun >= restartAfter && shapeLosses === 0 && hist.length >= 3 && movesSlowly(hist)) {
         // a rotor starting from rest leaves the tight gate of a still marker within a frame or two, faster than the
         // gate widens: look for it over the whole region again (nearest to where it stood), still of the size it had
@@ -123,10 +132,13 @@ export function createSpotFollower(options: SpotFollowerOptions) {
         // search the whole region (start, or few frames of history): take the spot nearest the last position, else the biggest
         const all = findSpots(signal, width, region);
         if (all.spots.length === 0) return lost('lost:no-blob');
-        let best = all.spots[0];
+        // about a known centre, only spots at the marker's distance from it (when any is)
+        const onCircle = all.spots.filter((s) => onMarkerCircle(s.x_px, s.y_px));
+        const pool = onCircle.length > 0 ? onCircle : all.spots;
+        let best = pool[0];
         const near = pred ?? (start ? { x: start.x_px, y: start.y_px } : lastSeen);
         if (near) {
-          for (const s of all.spots) if (Math.hypot(s.x_px - near.x, s.y_px - near.y) < Math.hypot(best.x_px - near.x, best.y_px - near.y)) best = s;
+          for (const s of pool) if (Math.hypot(s.x_px - near.x, s.y_px - near.y) < Math.hypot(best.x_px - near.x, best.y_px - near.y)) best = s;
         }
         start = null;
         candidate = { x: best.x_px, y: best.y_px };
@@ -161,7 +173,12 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       if (areas.length >= 3 && (ratio > areaFactor || ratio < 1 / areaFactor)) return lost('lost:shape');
       // a marker whose size has kept steady (a slow one, same pixels every frame) is held to that: a particle
       // touching it merges into a blob a third bigger, still inside the fixed factor, and would drag the track away
-      if (areas.length >= AREA_HISTORY && Math.abs(spot.area_px - typicalArea) > areaBand(areas)) return lost('lost:shape');
+      const held = areas.length >= AREA_HISTORY;
+      if (held && Math.abs(spot.area_px - typicalArea) > steadySizeBand(areas)) return lost('lost:shape');
+      // about a known centre the marker keeps its distance: a particle the widened gate of a long loss lets in does not
+      // (without this the follower stays on the particle and never comes back to the marker)
+      const radius = centre ? Math.hypot(spot.x_px - centre.x_px, spot.y_px - centre.y_px) : Number.NaN;
+      if (!onMarkerCircle(spot.x_px, spot.y_px)) return lost('lost:gate');
       // accepted
       if (pred && hist.length >= 3 && lostRun === 0) {
         misses.push(miss);
@@ -172,11 +189,15 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       if (hist.length > 7) hist.shift();
       areas.push(spot.area_px);
       if (areas.length > 15) areas.shift();
+      if (centre) {
+        radii.push(radius);
+        if (radii.length > 15) radii.shift();
+      }
       lostRun = 0;
       shapeLosses = 0;
       const snr = spot.contrast / (spot.contrast + 10 * spot.noise);
       const shape = Math.min(ratio, 1 / ratio);
-      return { x_px: spot.x_px, y_px: spot.y_px, quality: Math.max(0, Math.min(1, snr * shape)), flag: '' };
+      return { x_px: spot.x_px, y_px: spot.y_px, quality: Math.max(0, Math.min(1, snr * shape)), flag: '', area_px: spot.area_px, size_held: held };
     },
   };
 
@@ -189,10 +210,13 @@ export function createSpotFollower(options: SpotFollowerOptions) {
 
 export type SpotFollower = ReturnType<typeof createSpotFollower>;
 
-/** How far a spot's area may lie from the typical (upper median) area of the recent ones, px. */
-function areaBand(areas: readonly number[]): number {
-  const { median, sigma } = robustSpread(areas);
-  return Math.max(AREA_MIN_BAND_PX, AREA_MIN_BAND_SHARE * median, AREA_SIGMAS * sigma);
+/**
+ * How far the marker's distance from a known centre may move from its typical (upper median) recent value, px:
+ * 5 robust SDs of the recent distances (in an oblique view the distance changes along the ellipse, and a fast
+ * marker's recent distances cover that change), at least 3 px (camera shake, compression). Common practice, no source.
+ */
+function steadyRadiusBand(radii: readonly number[]): number {
+  return Math.max(3, 5 * robustSpread(radii).sigma);
 }
 
 /** Whether the first and last kept positions lie less than SLOW_PX_PER_FRAME apart per kept step between them. */

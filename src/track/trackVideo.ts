@@ -17,6 +17,7 @@ import { createMarkerHypotheses, pickMarkerTrack } from './markerHypotheses.js';
 import { offCircle } from './pathCheck.js';
 import { createMarkerFollowers } from './followMarkers.js';
 import { MarkerPathStore } from './MarkerPathStore.js';
+import { earlySizeOutliers } from './earlySizeOutliers.js';
 import { doubleCapacity } from './doubleCapacity.js';
 import { multiMarkerGeometry } from './multiMarkerGeometry.js';
 import { checkInside, checkTrackOptionNames, parseMarker, toRegion, type MarkerMode, type RegionPx, type TrackOptions } from './TrackOptions.js';
@@ -78,7 +79,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   // ---- one decoding pass: per-frame numbers only ----
   const store = new FrameStore();
   const region = { x0: roi.x - crop.x, y0: roi.y - crop.y, x1: roi.x - crop.x + roi.w, y1: roi.y - crop.y + roi.h };
-  const follower = mode.kind === 'texture' ? null : createMarkerHypotheses({ region });
+  const follower = mode.kind === 'texture' ? null : createMarkerHypotheses({ region, ...(centre ? { centre: { x_px: centre.x_px - crop.x, y_px: centre.y_px - crop.y } } : {}) });
   const multi = markerCount > 1 ? { followers: createMarkerFollowers({ region, count: markerCount }), paths: new MarkerPathStore(markerCount) } : null;
   const colourTable = mode.kind === 'color' ? colourSimilarityTable(mode.rgb, tolerance) : null;
   const anchorTracker: AnchorTracker | null = anchor ? createAnchorTracker({ anchor }) : null;
@@ -211,6 +212,12 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
         store.sy[i] = candidates.sy_px[k][i];
         store.q[i] = candidates.quality[k][i];
         store.flag[i] = candidates.flag[k][i];
+      }
+      // the first frames were taken before the marker's size was known: something merged with it then is refused now
+      for (const i of earlySizeOutliers(candidates.area_px[k].subarray(0, n), candidates.size_held[k].subarray(0, n), (j) => store.flag[j] === '')) {
+        store.x[i] = store.y[i] = store.sx[i] = store.sy[i] = Number.NaN;
+        store.q[i] = 0;
+        store.flag[i] = 'lost:shape';
       }
     }
     const t_s = store.t.subarray(0, n);

@@ -12,7 +12,8 @@ function drawSpot(x: number, y: number, more: { x: number; y: number; r: number 
   for (let j = 0; j < H; j++) {
     for (let i = 0; i < W; i++) {
       let cover = 0;
-      for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (discs.some((d) => Math.hypot(i - 0.375 + sx / 4 - d.x, j - 0.375 + sy / 4 - d.y) <= d.r)) cover++;
+      const near = discs.filter((d) => Math.abs(i - d.x) <= d.r + 1 && Math.abs(j - d.y) <= d.r + 1);
+      if (near.length > 0) for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (near.some((d) => Math.hypot(i - 0.375 + sx / 4 - d.x, j - 0.375 + sy / 4 - d.y) <= d.r)) cover++;
       img[j * W + i] = Math.round(60 + 3 * Math.sin(1.3 * i + 2.1 * j) + (140 * cover) / 16);
     }
   }
@@ -70,5 +71,22 @@ describe('createSpotFollower', () => {
     // every kept reading is the marker itself (never a centroid dragged towards the particle), and it is kept again afterwards
     for (const r of readings) if (r.flag === '') expect(Math.hypot(r.x_px - 160, r.y_px - 100)).toBeLessThan(0.3);
     expect(readings.slice(-5).every((r) => r.flag === '')).toBe(true);
+  });
+
+  it('about a given centre, keeps a particle that travels along the marker\'s circle and hides it for 17 frames from taking over', () => {
+    // marker at rest at (160, 100), radius 60 about (100, 100); a particle of radius 5 comes along the same circle at
+    // 1° per frame from 40° above, covers the marker (a merged blob) and goes on below it. Without the centre the
+    // follower, after 15 lost frames, starts afresh on the merged blob and follows it away with the particle.
+    const at = (k: number) => { const a = ((40 - k) * Math.PI) / 180; return { x: 100 + 60 * Math.cos(a), y: 100 - 60 * Math.sin(a), r: 5 }; };
+    const images = Array.from({ length: 90 }, (_, k) => drawSpot(160, 100, [at(k)]));
+    const run = (centre?: { x_px: number; y_px: number }) => {
+      const f = createSpotFollower({ region, start: { x_px: 160, y_px: 100 }, ...(centre ? { centre } : {}) });
+      return images.map((img, k) => f.update(img, W, k / 30));
+    };
+    const withCentre = run({ x_px: 100, y_px: 100 });
+    for (const r of withCentre) if (r.flag === '') expect(Math.hypot(r.x_px - 160, r.y_px - 100)).toBeLessThan(0.3);
+    expect(withCentre.slice(-10).every((r) => r.flag === '')).toBe(true);
+    const without = run();
+    expect(without.some((r) => r.flag === '' && Math.hypot(r.x_px - 160, r.y_px - 100) > 1)).toBe(true);
   });
 });
