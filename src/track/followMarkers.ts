@@ -9,6 +9,8 @@ export interface FollowMarkersOptions {
   region: Window;
   /** Number of markers on the hub (2 or more). */
   count: number;
+  /** The rotation centre when known beforehand (--center), signal-image px: each marker is held to its own distance from it (see createSpotFollower). */
+  centre?: { x_px: number; y_px: number };
 }
 
 /**
@@ -63,7 +65,7 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
     };
     spots.sort((p, q) => polar(p) - polar(q));
     for (const s of spots) {
-      followers.push(createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px } }));
+      followers.push(createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px }, ...(options.centre ? { centre: options.centre } : {}) }));
       last.push({ x: s.x_px, y: s.y_px, dx: 0, dy: 0, age: 0, r: Math.sqrt(Math.max(4, s.area_px) / Math.PI) });
     }
     return true;
