@@ -126,14 +126,26 @@ export function multiMarkerGeometry(input: MultiMarkerGeometryInput): MultiMarke
   if (combined.first_all_index < 0) {
     throw new InputError(`the ${m} markers were never all kept in the same frame (their paths disagree), so their phase offsets are unknown; check --markers and --roi, and that the markers lie farther apart than the hub turns between frames`);
   }
+  let disagreeing = 0;
+  let several = 0;
   for (let i = 0; i < n; i++) {
     const f = store.frameOf(i);
     frame.flag[i] = f.flag;
     frame.quality[i] = f.quality;
-    if (store.flag[0][i] !== '') {
+    if (combined.found[i] >= 2) several++;
+    if (combined.disagree[i] === 1) {
+      // the markers found do not turn together here: one of them has followed a particle or reflection
+      frame.flag[i] = 'lost:markers-disagree';
+      frame.quality[i] = 0;
+      disagreeing++;
+    }
+    if (store.flag[0][i] !== '' || combined.disagree[i] === 1) {
       frame.x_px[i] = Number.NaN;
       frame.y_px[i] = Number.NaN;
     }
+  }
+  if (disagreeing > 0 && disagreeing >= 0.05 * several) {
+    warnings.push(`In ${disagreeing} of the ${several} frames with several markers, the markers disagreed about the hub's angle by more than ${combined.disagree_band_deg.toFixed(1)}° after their phase offsets (flagged lost:markers-disagree): a follower probably took a particle or reflection; frames with one marker cannot be checked this way, so check preview.png.`);
   }
   const foundFrames = Array.from({ length: m }, (_, k) => store.flag[k].reduce((c, f, i) => c + (i < n && f === '' ? 1 : 0), 0));
   return {
