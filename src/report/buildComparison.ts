@@ -14,6 +14,8 @@ export interface RunRate {
   setting_unit: string;
   estimate: RateEstimate;
   ci_deg_s: [number, number];
+  /** The same rate allowing for a rate wander too small for the run to detect (steady fits: steady.wander_allowance); the estimate itself otherwise. */
+  estimate_allowing_wander: RateEstimate;
   /** Which number of the fit is the run's rate. */
   source: 'steady rate' | 'spin-up terminal rate';
 }
@@ -32,6 +34,8 @@ export interface SettingComparison {
   forward: DirectionAtSetting;
   reverse: DirectionAtSetting;
   comparison: DirectionComparison | null;
+  /** The comparison once more with every run's rate allowing for undetected rate wander; null when no run's differs. */
+  comparison_allowing_wander: DirectionComparison | null;
   /** Why there is no comparison, or a caveat about it. */
   notes: string[];
 }
@@ -74,13 +78,28 @@ export function runRate(record: RunRecord, fit: FitReport | null): { rate: RunRa
   const base = { run: record.run, direction: record.direction, group: record.group, setting: record.setting, setting_unit: record.setting_unit };
   if (fit.model === 'steady' && fit.steady) {
     const e = fit.steady.rate_deg_s;
-    return { rate: { ...base, estimate: { value_deg_s: e.value, se_deg_s: e.se, df: fit.steady.zero_test.df > 0 ? fit.steady.zero_test.df : Infinity }, ci_deg_s: e.ci, source: 'steady rate' }, reason: null };
+    const estimate = { value_deg_s: e.value, se_deg_s: e.se, df: fit.steady.zero_test.df > 0 ? fit.steady.zero_test.df : Infinity };
+    const w = fit.steady.wander_allowance;
+    const allowing = w && w.hidden_walk_bound_deg_per_sqrt_s !== null ? { value_deg_s: w.rate_deg_s.value, se_deg_s: w.rate_deg_s.se, df: w.zero_test.df > 0 ? w.zero_test.df : Infinity } : estimate;
+    return { rate: { ...base, estimate, estimate_allowing_wander: allowing, ci_deg_s: e.ci, source: 'steady rate' }, reason: null };
   }
   if (fit.model === 'spinup' && fit.spinup) {
     const e = fit.spinup.terminal_rate_deg_s;
-    return { rate: { ...base, estimate: { value_deg_s: e.value, se_deg_s: e.se, df: Infinity }, ci_deg_s: e.ci, source: 'spin-up terminal rate' }, reason: null };
+    const estimate = { value_deg_s: e.value, se_deg_s: e.se, df: Infinity };
+    return { rate: { ...base, estimate, estimate_allowing_wander: estimate, ci_deg_s: e.ci, source: 'spin-up terminal rate' }, reason: null };
   }
   return { rate: null, reason: `a ${modelLabel(fit.model)} fit has no single rate to compare` };
+}
+
+/**
+ * What a comparison says about the reverse direction's sense, at this level: it turns the other way (p_opposite
+ * below α), it turns the same way (the reverse rate has the forward's sign and 1 − p_opposite is below α), or the
+ * direction is not settled.
+ */
+export function directionVerdict(c: DirectionComparison, level: number): 'turns the other way' | 'turns the same way' | 'direction not settled' {
+  const alpha = 1 - level;
+  const sameWay = Math.sign(c.reverse.value_deg_s) === Math.sign(c.forward.value_deg_s);
+  return c.p_opposite < alpha ? 'turns the other way' : 1 - c.p_opposite < alpha && sameWay ? 'turns the same way' : 'direction not settled';
 }
 
 /**
@@ -122,12 +141,23 @@ export function buildComparison(runs: readonly { record: RunRecord; fit: FitRepo
     const reverse = side('reverse');
     const notes: string[] = [];
     let comparison: DirectionComparison | null = null;
+    let allowing: DirectionComparison | null = null;
     if (forward.pooled && reverse.pooled) {
       comparison = compareDirections(forward.pooled, reverse.pooled, { level, margin_deg_s: margin });
       if (forward.pooled.k === 1 || reverse.pooled.k === 1) notes.push('A single run in one direction: the spread between runs is not included for it.');
       if (comparison.ratio.fieller.kind !== 'bounded') notes.push('The forward rate is not clearly different from zero, so the ratio has no bounded interval.');
+      if (list.some((r) => r.estimate_allowing_wander !== r.estimate)) {
+        const pool = (d: Direction) => poolReplicates(list.filter((r) => r.direction === d).map((r) => r.estimate_allowing_wander), { level });
+        allowing = compareDirections(pool('forward'), pool('reverse'), { level, margin_deg_s: margin });
+        const before = directionVerdict(comparison, level);
+        const after = directionVerdict(allowing, level);
+        if (after !== before) {
+          const words = after === 'direction not settled' ? 'the sense of the reverse direction is not settled' : `the reverse direction ${after}`;
+          notes.push(`Allowing for a rate wander too small for the runs to detect, ${words} (p = ${allowing.p_opposite.toPrecision(2)} for turning the other way).`);
+        }
+      }
     } else notes.push(forward.pooled ? 'No reverse run at this setting.' : 'No forward run at this setting.');
-    settings.push({ group: first.group, setting: first.setting, setting_unit: first.setting_unit, forward, reverse, comparison, notes });
+    settings.push({ group: first.group, setting: first.setting, setting_unit: first.setting_unit, forward, reverse, comparison, comparison_allowing_wander: allowing, notes });
   }
   settings.sort((a, b) => (a.group < b.group ? -1 : a.group > b.group ? 1 : (a.setting ?? -Infinity) - (b.setting ?? -Infinity)));
 

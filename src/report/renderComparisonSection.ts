@@ -1,4 +1,4 @@
-import type { ComparisonSummary, DirectionAtSetting, SettingComparison } from './buildComparison.js';
+import { directionVerdict, type ComparisonSummary, type DirectionAtSetting, type SettingComparison } from './buildComparison.js';
 import { formatFixed, formatInterval, formatP, formatRate, formatSig, decimalsFor } from './formatQuantity.js';
 import { html, type SafeHtml } from './escapeHtml.js';
 import { settingLabel } from './comparisonCharts.js';
@@ -26,9 +26,7 @@ function comparisonRow(s: SettingComparison, level: number): SafeHtml {
   }
   const eq = c.equivalence;
   const eqText = eq ? `${eq.equivalent ? 'yes' : 'no'} (±${formatSig(eq.margin_deg_s)} deg/s, p ${formatP(eq.p_value).startsWith('<') ? '' : '= '}${formatP(eq.p_value)})` : 'no margin given';
-  const sameWay = Math.sign(c.reverse.value_deg_s) === Math.sign(c.forward.value_deg_s);
-  const alpha = 1 - level;
-  const verdict = c.p_opposite < alpha ? 'turns the other way' : 1 - c.p_opposite < alpha && sameWay ? 'turns the same way' : 'direction not settled';
+  const verdict = directionVerdict(c, level);
   return html`<tr><th scope="row">${label}</th>${rateCell(s.forward)}${rateCell(s.reverse)}
 <td class="num">${ratioText(c.ratio.value, c.ratio.fieller, c.ratio.delta.se)}<br><small>standard error ${formatSig(c.ratio.delta.se, 2)} (delta method)</small></td>
 <td class="num">${formatP(c.p_opposite)}<br><small>${verdict}</small></td>

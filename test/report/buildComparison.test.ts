@@ -46,6 +46,30 @@ describe('buildComparison', () => {
     }
   });
 
+  it('says when the reverse direction\'s sense rests on the runs\' rates not wandering', async () => {
+    // the test batch gives every steady run an interval allowing for undetected wander 3 × as wide (writeTestBatch)
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-compare-wander-'));
+    try {
+      await writeTestBatch(dir, [
+        { run: 'f1', direction: 'forward', setting: 1, rate_deg_s: 40, se_deg_s: 0.4 },
+        { run: 'r1', direction: 'reverse', setting: 1, rate_deg_s: -0.12, se_deg_s: 0.05 },
+        { run: 'f2', direction: 'forward', setting: 2, rate_deg_s: 90, se_deg_s: 0.4 },
+        { run: 'r2', direction: 'reverse', setting: 2, rate_deg_s: -2.5, se_deg_s: 0.05 },
+      ]);
+      const s = buildComparison((await loadReportData(dir)).runs);
+      const [one, two] = s.settings;
+      // setting 1: −0.12 ± 0.05 deg/s turns the other way (z = 2.4); with the 3 × wider interval it is not settled
+      expect(one!.comparison!.p_opposite).toBeLessThan(0.05);
+      expect(one!.comparison_allowing_wander!.p_opposite).toBeGreaterThan(0.05);
+      expect(one!.notes.join(' ')).toMatch(/Allowing for a rate wander too small for the runs to detect, the sense of the reverse direction is not settled/);
+      // setting 2: −2.5 ± 0.15 deg/s is clear either way, and no such note is added
+      expect(two!.comparison_allowing_wander!.p_opposite).toBeLessThan(0.05);
+      expect(two!.notes.join(' ')).not.toMatch(/wander/);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+
   it('takes the rate of the model the fit chose, not a steady fit carried beside a spin-up', () => {
     // With --model auto every model is fitted; a spin-up run's steady fit averages the spin-up and must not be its rate.
     const est = (value: number) => ({ value, se: 0.5, ci: [value - 1, value + 1] as [number, number], level: 0.95 });
