@@ -1,8 +1,13 @@
-import { findSpots, type Window } from './findSpots.js';
+import { findSpots, type Spot, type Window } from './findSpots.js';
+import { robustSpread } from './robustSpread.js';
 import { createSpotFollower, type SpotFollower, type SpotReading } from './spotFollower.js';
 
 /** Frames a lost marker's extrapolated place is still blanked for the other followers. */
 const MAX_BLANK_AGE = 5;
+/** With a known centre and more spots than markers at the start: frames every spot is followed before the markers are chosen… */
+const CHOOSE_AFTER = 20;
+/** …of at most this many spots (the biggest). */
+const MOST_CANDIDATES = 6;
 
 export interface FollowMarkersOptions {
   /** Where the markers may be, in signal-image pixels. */
@@ -15,8 +20,9 @@ export interface FollowMarkersOptions {
 
 /**
  * Follows several marker spots on one hub, each with its own spot follower (own prediction and gate).
- * Until all `count` markers are seen in one frame, nothing is followed (every marker `lost:no-blob`). At that
- * frame the `count` biggest spots (findSpots; spots crossing the region's edge last) are numbered counterclockwise as displayed from the image's +x
+ * Until all `count` markers are seen in one frame, nothing is followed (every marker `lost:no-blob`). With a known
+ * centre and more spots than markers in that frame, the markers are chosen by following every spot for a while
+ * (choose). Otherwise, at that frame the `count` biggest spots (findSpots; spots crossing the region's edge last) are numbered counterclockwise as displayed from the image's +x
  * direction about their mean position, and each follower is started on its own spot (its first search takes the spot nearest it; the others are blanked). Every frame, each
  * follower sees the signal with the other markers blanked out (a disc around their latest or extrapolated
  * position, for up to MAX_BLANK_AGE lost frames, filled with the region's median), so it can neither start on, reacquire nor drift onto another
@@ -50,9 +56,65 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
     for (let y = y0; y <= y1; y++) for (let x = x0; x <= x1; x++) if ((x - cx) ** 2 + (y - cy) ** 2 <= r2) img[y * width + x] = value;
   };
 
-  const start = (signal: Uint8Array, width: number): boolean => {
+  /** Spots being followed while the markers are chosen among them (a known centre and more spots than markers at the start). */
+  let candidates: { follower: SpotFollower; radii: number[]; last: SpotReading | null }[] | null = null;
+  let candidateFrames = 0;
+  /** True on the frame the markers were chosen: the followers have already measured it, so it is not measured again. */
+  let justChosen = false;
+
+  /** Hands the chosen followers over as the markers, numbered counterclockwise about their mean position (as start does). */
+  const adopt = (chosen: { follower: SpotFollower; last: SpotReading }[]): void => {
+    const mx = chosen.reduce((s, c) => s + c.last.x_px, 0) / chosen.length;
+    const my = chosen.reduce((s, c) => s + c.last.y_px, 0) / chosen.length;
+    const polar = (c: { last: SpotReading }): number => {
+      const a = Math.atan2(-(c.last.y_px - my), c.last.x_px - mx);
+      return a < 0 ? a + 2 * Math.PI : a;
+    };
+    for (const c of [...chosen].sort((a, b) => polar(a) - polar(b))) {
+      followers.push(c.follower);
+      last.push({ x: c.last.x_px, y: c.last.y_px, dx: 0, dy: 0, age: 0, r: Math.sqrt(Math.max(4, c.last.area_px ?? 4) / Math.PI) });
+    }
+  };
+
+  /**
+   * At a start with more spots than markers about a known centre, nothing yet tells the markers from a particle (often
+   * the bigger spot): every spot is followed for CHOOSE_AFTER frames, and the `count` that kept their distance from
+   * the centre best (smallest robust spread, found in at least half the frames, apart from each other) become the
+   * markers. Those frames are lost for the markers. Returns true once the markers are chosen.
+   */
+  const choose = (signal: Uint8Array, width: number, t_s: number, centre: { x_px: number; y_px: number }, found: Spot[] | null): boolean => {
+    if (!candidates) {
+      candidates = found!.slice(0, MOST_CANDIDATES).map((s) => ({ follower: createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px }, centre }), radii: [], last: null }));
+      candidateFrames = 0;
+    }
+    for (const c of candidates) {
+      const r = c.follower.update(signal, width, t_s);
+      if (r.flag !== '') continue;
+      c.radii.push(Math.hypot(r.x_px - centre.x_px, r.y_px - centre.y_px));
+      c.last = r;
+    }
+    if (++candidateFrames < CHOOSE_AFTER) return false;
+    const ranked = candidates
+      .filter((c): c is { follower: SpotFollower; radii: number[]; last: SpotReading } => c.last !== null && c.radii.length >= CHOOSE_AFTER / 2)
+      .map((c) => ({ c, spread: robustSpread(c.radii).sigma }))
+      .sort((a, b) => a.spread - b.spread);
+    const chosen: { follower: SpotFollower; last: SpotReading }[] = [];
+    for (const { c } of ranked) {
+      if (chosen.every((o) => Math.hypot(o.last.x_px - c.last.x_px, o.last.y_px - c.last.y_px) > 4)) chosen.push(c);
+      if (chosen.length === count) break;
+    }
+    candidates = null;
+    if (chosen.length < count) return false; // start again at a later frame
+    adopt(chosen);
+    justChosen = true;
+    return true;
+  };
+
+  const start = (signal: Uint8Array, width: number, t_s: number): boolean => {
+    if (candidates && options.centre) return choose(signal, width, t_s, options.centre, null);
     const found = findSpots(signal, width, region).spots;
     if (found.length < count) return false;
+    if (found.length > count && options.centre) return choose(signal, width, t_s, options.centre, found);
     // a spot whose equal-area disc would cross the region's edge (a dark corner, the rim) is taken only if nothing else is left
     const inside = (p: { x_px: number; y_px: number; area_px: number }): boolean =>
       Math.min(p.x_px - region.x0, region.x1 - 1 - p.x_px, p.y_px - region.y0, region.y1 - 1 - p.y_px) > Math.sqrt(p.area_px / Math.PI);
@@ -74,7 +136,8 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
   return {
     /** Measures every marker in this frame's signal image (width px per row), at frame time t_s; one reading per marker. */
     update(signal: Uint8Array, width: number, t_s: number): SpotReading[] {
-      if (followers.length === 0 && !start(signal, width)) {
+      if ((followers.length === 0 && !start(signal, width, t_s)) || justChosen) {
+        justChosen = false;
         return Array.from({ length: count }, () => ({ x_px: Number.NaN, y_px: Number.NaN, quality: 0, flag: 'lost:no-blob' }));
       }
       scratch = scratch && scratch.length === signal.length ? scratch : new Uint8Array(signal.length);
