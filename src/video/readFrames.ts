@@ -101,7 +101,7 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
   const graph = `[0:${header.stream_index}]${chain.join(',')}[frames]`;
   const seek_s = Number.isFinite(from_s) ? from_s - header.start_s - 0.002 : 0;
   const args = [
-    '-hide_banner', '-nostats', '-nostdin', '-loglevel', 'info', '-copyts',
+    '-hide_banner', '-nostats', '-nostdin', '-loglevel', 'repeat+info', '-copyts',
     ...(seek_s > 0 ? ['-ss', seek_s.toFixed(6)] : []),
     '-i', path,
     '-filter_complex', graph, '-map', '[frames]', '-an', '-sn', '-dn',

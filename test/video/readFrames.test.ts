@@ -63,6 +63,19 @@ describe('readFrames', () => {
     });
   });
 
+  it('gives two frames that share a time stamp that time each (ffmpeg must not fold repeated log lines)', async () => {
+    // ffmpeg's own test source with every time stamp used twice (setpts floor(N/2)), kept as is in Matroska/FFV1.
+    // Each frame's time is printed on its own line; ffmpeg folds identical consecutive lines by default, which
+    // shifted every later frame's time (0, 0, 0.2, 0.4, 0.5, … and then an error). Reference: ffprobe's packet times.
+    const dup = join(dir, 'dup.mkv');
+    ffmpeg(['-f', 'lavfi', '-i', 'testsrc=size=64x48:rate=10:duration=2', '-vf', 'setpts=floor(N/2)/5/TB', '-vsync', 'passthrough', '-c:v', 'ffv1', dup]);
+    const ref = ffprobePacketTimes(dup);
+    expect(ref.length).toBe(20);
+    const frames = await collect(dup);
+    expect(frames.map((f) => f.t_s)).toEqual(ref);
+    expect(frames[0]!.t_s).toBe(frames[1]!.t_s);
+  });
+
   it('crops gray and RGB exactly like ffmpeg\'s own crop filter', async () => {
     // Reference: ffmpeg -vf crop=w:h:x:y,format=… -f rawvideo on the same file.
     const gray = ffmpeg(['-i', cfr, '-vf', 'crop=64:48:100:60,format=gray', '-f', 'rawvideo', '-pix_fmt', 'gray', '-']);
