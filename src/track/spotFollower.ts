@@ -31,7 +31,7 @@ export interface SpotFollowerOptions {
   restart_after?: number;
   /** Where to start, signal-image px: the first search takes the spot nearest this point (default: the biggest spot). */
   start?: { x_px: number; y_px: number };
-  /** The rotation centre when it is known beforehand (--center), signal-image px: a spot off the marker's steady distance from it is refused. */
+  /** The rotation centre when it is known beforehand (--center) and the camera does not move, signal-image px: after a loss, a spot off the marker's recent distance from it is refused. */
   centre?: { x_px: number; y_px: number };
 }
 
@@ -101,12 +101,15 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       if (lostRun >= reacquireAfter) {
         // start afresh: the motion and the size learned before may belong to something else (the search then
         // takes the spot nearest the last place the marker was seen, not the biggest: a particle is often bigger).
-        // About a known centre, what was followed kept the marker's distance from it (kept too), so its size is the
-        // marker's: held for one more wait, a blob the marker forms with a particle travelling along its circle is
-        // still refused; a size that really changed while the marker was hidden is learned after a second wait.
+        // About a known centre, what was followed kept the marker's distance from it, so its size is the marker's: held
+        // for one more wait, a blob the marker forms with a particle travelling along its circle is still refused; a size
+        // that really changed while the marker was hidden is learned after a second wait, and so is the distance.
         hist.length = 0;
         misses.length = 0;
-        if (!centre || lostRun >= 2 * reacquireAfter) areas.length = 0;
+        if (!centre || lostRun >= 2 * reacquireAfter) {
+          areas.length = 0;
+          radii.length = 0;
+        }
       } else if (lostRun >= restartAfter && shapeLosses === 0 && hist.length >= 3 && movesSlowly(hist)) {
         // a rotor starting from rest leaves the tight gate of a still marker within a frame or two, faster than the
         // gate widens: look for it over the whole region again (nearest to where it stood), still of the size it had
@@ -175,10 +178,11 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       // touching it merges into a blob a third bigger, still inside the fixed factor, and would drag the track away
       const held = areas.length >= AREA_HISTORY;
       if (held && Math.abs(spot.area_px - typicalArea) > steadySizeBand(areas)) return lost('lost:shape');
-      // about a known centre the marker keeps its distance: a particle the widened gate of a long loss lets in does not
-      // (without this the follower stays on the particle and never comes back to the marker)
+      // about a known centre the marker keeps its distance: after a loss, a particle the widened gate lets in does not
+      // (without this the follower stays on the particle and never comes back to the marker). Not while following
+      // normally: in an oblique view the distance changes along the ellipse faster than the recent ones show.
       const radius = centre ? Math.hypot(spot.x_px - centre.x_px, spot.y_px - centre.y_px) : Number.NaN;
-      if (!onMarkerCircle(spot.x_px, spot.y_px)) return lost('lost:gate');
+      if (lostRun > 0 && !onMarkerCircle(spot.x_px, spot.y_px)) return lost('lost:gate');
       // accepted
       if (pred && hist.length >= 3 && lostRun === 0) {
         misses.push(miss);

@@ -79,8 +79,9 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
   // ---- one decoding pass: per-frame numbers only ----
   const store = new FrameStore();
   const region = { x0: roi.x - crop.x, y0: roi.y - crop.y, x1: roi.x - crop.x + roi.w, y1: roi.y - crop.y + roi.h };
-  // a centre given beforehand, in the signal image's pixels: the followers hold each marker to its distance from it
-  const knownCentre = centre ? { centre: { x_px: centre.x_px - crop.x, y_px: centre.y_px - crop.y } } : {};
+  // a centre given beforehand, in the signal image's pixels: the followers hold each marker to its distance from it after
+  // a loss (not with --anchor: the followers see the camera's motion, the centre would move by it)
+  const knownCentre = centre && !anchor ? { centre: { x_px: centre.x_px - crop.x, y_px: centre.y_px - crop.y } } : {};
   const follower = mode.kind === 'texture' ? null : createMarkerHypotheses({ region, ...knownCentre });
   const multi = markerCount > 1 ? { followers: createMarkerFollowers({ region, count: markerCount, ...knownCentre }), paths: new MarkerPathStore(markerCount) } : null;
   const colourTable = mode.kind === 'color' ? colourSimilarityTable(mode.rgb, tolerance) : null;

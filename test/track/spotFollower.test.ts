@@ -89,4 +89,15 @@ describe('createSpotFollower', () => {
     const without = run();
     expect(without.some((r) => r.flag === '' && Math.hypot(r.x_px - 160, r.y_px - 100) > 1)).toBe(true);
   });
+
+  it('about a given centre, follows a marker on an oblique view\'s ellipse in every frame (its distance changes along it)', () => {
+    // a hub tilted 45° about the horizontal: the marker's path is an ellipse of semi-axes 60 and 42.4 px, turning
+    // 3° per frame; the distance from the centre sweeps 42–60 px and near the long axis barely changes for a while
+    const f = createSpotFollower({ region, start: { x_px: 160, y_px: 100 }, centre: { x_px: 100, y_px: 100 } });
+    const readings = Array.from({ length: 150 }, (_, k) => {
+      const a = (3 * k * Math.PI) / 180;
+      return f.update(drawSpot(100 + 60 * Math.cos(a), 100 - 60 * Math.SQRT1_2 * Math.sin(a)), W, k / 30);
+    });
+    expect(readings.filter((r) => r.flag !== '').length).toBe(0);
+  });
 });
