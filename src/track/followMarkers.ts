@@ -18,6 +18,54 @@ export interface FollowMarkersOptions {
   centre?: { x_px: number; y_px: number };
 }
 
+/** A spot followed while the markers are chosen: its follower, distances from the centre, turn about it and last reading. */
+interface Candidate {
+  follower: SpotFollower;
+  radii: number[];
+  /** Unwrapped angle travelled about the centre (deg, counterclockwise as displayed) between the first and last kept reading, at times first_t and t (s). */
+  turn: { first_t: number; t: number; angle: number; travel: number };
+  last: SpotReading | null;
+  seen: number;
+}
+
+/** Angular rate (deg/s) below which a candidate counts as standing still over the choosing window. */
+const STILL_DEG_S = 3;
+
+/**
+ * The `count` candidates that turn together about the centre: among the sets of `count` candidates at least 4 px
+ * apart: sets that move (mean |rate| ≥ STILL_DEG_S: a still spot next to turning markers is left out) before sets
+ * that do not; among moving sets, those whose angular rates (deg/s) agree within noise, and among those the
+ * steadiest distances from the centre (a particle drifting past changes its distance); else the closest rates. When
+ * nothing moves (a hub at rest) the steadiest distances decide. Null when no such set exists.
+ */
+export function pickTurningTogether<C extends { radii: number[]; turn: { first_t: number; t: number; travel: number }; last: SpotReading }>(candidates: C[], count: number): C[] | null {
+  const rate = (c: C): number => (c.turn.t > c.turn.first_t ? c.turn.travel / (c.turn.t - c.turn.first_t) : 0);
+  const spread = (c: C): number => robustSpread(c.radii).sigma;
+  let best: { set: C[]; moving: boolean; together: boolean; range: number; steadiness: number } | null = null;
+  const consider = (set: C[]): void => {
+    for (let a = 0; a < set.length; a++) for (let b = a + 1; b < set.length; b++) if (Math.hypot(set[a]!.last.x_px - set[b]!.last.x_px, set[a]!.last.y_px - set[b]!.last.y_px) <= 4) return;
+    const rates = set.map(rate);
+    const moving = rates.reduce((s, r) => s + Math.abs(r), 0) / rates.length >= STILL_DEG_S;
+    const range = Math.max(...rates) - Math.min(...rates);
+    const steadiness = set.reduce((s, c) => s + spread(c), 0);
+    // rates that agree within noise (2 deg/s, or a tenth of the rate) count as turning together; between such sets the
+    // steadier distances decide, otherwise the closer rates
+    const together = range <= Math.max(2, 0.1 * Math.max(...rates.map(Math.abs)));
+    const better = !best
+      || (moving !== best.moving ? moving
+        : !moving ? steadiness < best.steadiness
+          : together !== best.together ? together
+            : together ? steadiness < best.steadiness : range < best.range);
+    if (better) best = { set, moving, together, range, steadiness };
+  };
+  const pick = (from: number, set: C[]): void => {
+    if (set.length === count) { consider(set); return; }
+    for (let i = from; i < candidates.length; i++) pick(i + 1, [...set, candidates[i]!]);
+  };
+  pick(0, []);
+  return best ? (best as { set: C[] }).set : null;
+}
+
 /**
  * Follows several marker spots on one hub, each with its own spot follower (own prediction and gate).
  * Until all `count` markers are seen in one frame, nothing is followed (every marker `lost:no-blob`). With a known
@@ -57,7 +105,7 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
   };
 
   /** Spots being followed while the markers are chosen among them (a known centre and more spots than markers at the start). */
-  let candidates: { follower: SpotFollower; radii: number[]; last: SpotReading | null }[] | null = null;
+  let candidates: Candidate[] | null = null;
   let candidateFrames = 0;
   /** True on the frame the markers were chosen: the followers have already measured it, so it is not measured again. */
   let justChosen = false;
@@ -78,33 +126,33 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
 
   /**
    * At a start with more spots than markers about a known centre, nothing yet tells the markers from a particle (often
-   * the bigger spot): every spot is followed for CHOOSE_AFTER frames, and the `count` that kept their distance from
-   * the centre best (smallest robust spread, found in at least half the frames, apart from each other) become the
-   * markers. Those frames are lost for the markers. Returns true once the markers are chosen.
+   * the bigger spot) or a still spot (a bolt head, a reflection): every spot is followed for CHOOSE_AFTER frames. The
+   * markers of one hub turn together: among the spots found in at least half those frames, the `count` whose angular
+   * rates about the centre agree best are taken (pickTurningTogether); those frames are lost for the markers.
+   * Returns true once the markers are chosen.
    */
   const choose = (signal: Uint8Array, width: number, t_s: number, centre: { x_px: number; y_px: number }, found: Spot[] | null): boolean => {
     if (!candidates) {
-      candidates = found!.slice(0, MOST_CANDIDATES).map((s) => ({ follower: createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px }, centre }), radii: [], last: null }));
+      candidates = found!.slice(0, MOST_CANDIDATES).map((s) => ({ follower: createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px }, centre }), radii: [], turn: { first_t: NaN, t: NaN, angle: NaN, travel: 0 }, last: null, seen: 0 }));
       candidateFrames = 0;
     }
     for (const c of candidates) {
       const r = c.follower.update(signal, width, t_s);
       if (r.flag !== '') continue;
       c.radii.push(Math.hypot(r.x_px - centre.x_px, r.y_px - centre.y_px));
+      const angle = (Math.atan2(-(r.y_px - centre.y_px), r.x_px - centre.x_px) * 180) / Math.PI;
+      if (Number.isNaN(c.turn.first_t)) c.turn.first_t = t_s;
+      else c.turn.travel += ((((angle - c.turn.angle) % 360) + 540) % 360) - 180;
+      c.turn.angle = angle;
+      c.turn.t = t_s;
       c.last = r;
+      c.seen++;
     }
     if (++candidateFrames < CHOOSE_AFTER) return false;
-    const ranked = candidates
-      .filter((c): c is { follower: SpotFollower; radii: number[]; last: SpotReading } => c.last !== null && c.radii.length >= CHOOSE_AFTER / 2)
-      .map((c) => ({ c, spread: robustSpread(c.radii).sigma }))
-      .sort((a, b) => a.spread - b.spread);
-    const chosen: { follower: SpotFollower; last: SpotReading }[] = [];
-    for (const { c } of ranked) {
-      if (chosen.every((o) => Math.hypot(o.last.x_px - c.last.x_px, o.last.y_px - c.last.y_px) > 4)) chosen.push(c);
-      if (chosen.length === count) break;
-    }
+    const usable = candidates.filter((c): c is Candidate & { last: SpotReading } => c.last !== null && c.seen >= CHOOSE_AFTER / 2);
+    const chosen = pickTurningTogether(usable, count);
     candidates = null;
-    if (chosen.length < count) return false; // start again at a later frame
+    if (!chosen) return false; // start again at a later frame
     adopt(chosen);
     justChosen = true;
     return true;
