@@ -347,7 +347,11 @@ function allowForHiddenWalk(t: Float64Array, y: Float64Array, whole: SlopeFit, m
   const bound = walkUpperBound(t, y, 0, t.length, model, level);
   const allowed = wanderAllowedVariance(whole.se ** 2, whole.df, bound, whole.walkSensitivity);
   const se = Math.sqrt(allowed.variance);
-  return { hidden_walk_bound_deg_per_sqrt_s: Math.sqrt(bound), rate_deg_s: estimate(whole.slope, se, allowed.df, level), zero_test: zeroTest(whole.slope, se, allowed.df, tests) };
+  // the df treat the allowance as known; where that would make this interval narrower than the main one (a small
+  // allowance on few df), the main df are kept, so allowing for wander never narrows the interval
+  const wide = estimate(whole.slope, se, allowed.df, level);
+  const dfAllowing = wide.ci[1] - wide.ci[0] < rate.ci[1] - rate.ci[0] ? df : allowed.df;
+  return { hidden_walk_bound_deg_per_sqrt_s: Math.sqrt(bound), rate_deg_s: estimate(whole.slope, se, dfAllowing, level), zero_test: zeroTest(whole.slope, se, dfAllowing, tests) };
 }
 
 function estimate(value: number, se: number, df: number, level: number): Estimate {

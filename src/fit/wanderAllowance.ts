@@ -5,13 +5,17 @@ import { restrictedLogLikelihood } from './stateSpaceGls.js';
 const { jStat } = jstatModule;
 
 /**
- * Upper confidence bound (one-sided, at `level`) of a random-walk diffusion q (deg²/s) added to a noise model
- * that has none — the largest rate wander the window does not rule out. The other noise parameters stay as
- * fitted; q is profiled by the restricted likelihood (restrictedLogLikelihood), and the bound is the largest q
- * whose likelihood is within z²/2 of the best (the likelihood-ratio interval, one-sided: z = z_level; with the
- * best q on the boundary 0 this is the usual one-sided bound, Self & Liang 1987, J. Am. Stat. Assoc. 82:605).
+ * Upper bound (one-sided, at `level`) of a random-walk diffusion q (deg²/s) added to a noise model that has none —
+ * the largest rate wander the window does not rule out. q alone is varied: the other noise parameters stay at the
+ * variogram fit's values (a plug-in bound, not a full profile likelihood, which would refit them for each q), and the
+ * bound is the largest q whose restricted likelihood (restrictedLogLikelihood) is within z²/2 of the best
+ * (z = z_level; the one-sided likelihood-ratio form, Self & Liang 1987, J. Am. Stat. Assoc. 82:605, for a best q on
+ * the boundary 0). Because the fitted stationary noise may have absorbed part of a real walk, the bound itself falls
+ * below the true q more often than 1 − level (a review measured 46–89 % coverage of the bound for walks the fit
+ * missed); the interval built on it (wanderAllowedVariance) still covered 95–100 % (bench/RESULTS.md).
  * The search runs on a doubling grid from the score test's detection scale 1/√I_qq (walkInformation, Whittle),
- * stopping three points after the likelihood has fallen below the cut, then bisects in ln q. Rows [lo, hi) of t (s, increasing) and y (deg).
+ * stopping three points after the likelihood has fallen below the cut, then bisects in ln q; at the grid's end
+ * (2¹⁶ times that scale) it returns the grid's end. Rows [lo, hi) of t (s, increasing) and y (deg); level ≥ 0.5.
  */
 export function walkUpperBound(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel, level: number): number {
   const frames = hi - lo;
@@ -19,7 +23,7 @@ export function walkUpperBound(t: Float64Array, y: Float64Array, lo: number, hi:
   const info = walkInformation({ ...model, walk_deg2_per_s: 0 }, delta_s, frames);
   const scale = Number.isFinite(info) && info > 0 ? 1 / Math.sqrt(info) : 0;
   if (!(scale > 0)) return 0;
-  const z = jStat.normal.inv(level, 0, 1);
+  const z = jStat.normal.inv(Math.max(0.5, level), 0, 1);
   const like = (q: number): number => restrictedLogLikelihood(t, y, lo, hi, { ...model, walk_deg2_per_s: q });
   // walk up the grid until the likelihood has fallen below the cut for good (it has one peak in practice)
   const cutBelow = (z * z) / 2;

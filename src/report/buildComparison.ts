@@ -34,7 +34,7 @@ export interface SettingComparison {
   forward: DirectionAtSetting;
   reverse: DirectionAtSetting;
   comparison: DirectionComparison | null;
-  /** The comparison once more with every run's rate allowing for undetected rate wander; null when no run's differs. */
+  /** The comparison once more with every run's rate allowing for undetected rate wander (built at each fit's own level); null when no run's differs. */
   comparison_allowing_wander: DirectionComparison | null;
   /** Why there is no comparison, or a caveat about it. */
   notes: string[];
@@ -151,7 +151,7 @@ export function buildComparison(runs: readonly { record: RunRecord; fit: FitRepo
         allowing = compareDirections(pool('forward'), pool('reverse'), { level, margin_deg_s: margin });
         const before = directionVerdict(comparison, level);
         const after = directionVerdict(allowing, level);
-        if (after !== before) {
+        if (after !== before && after === 'direction not settled') {
           const words = after === 'direction not settled' ? 'the sense of the reverse direction is not settled' : `the reverse direction ${after}`;
           notes.push(`Allowing for a rate wander too small for the runs to detect, ${words} (p = ${allowing.p_opposite.toPrecision(2)} for turning the other way).`);
         }
