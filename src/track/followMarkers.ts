@@ -33,30 +33,27 @@ const STILL_DEG_S = 3;
 
 /**
  * The `count` candidates that turn together about the centre: among the sets of `count` candidates at least 4 px
- * apart: sets that move (mean |rate| ≥ STILL_DEG_S: a still spot next to turning markers is left out) before sets
- * that do not; among moving sets, those whose angular rates (deg/s) agree within noise, and among those the
- * steadiest distances from the centre (a particle drifting past changes its distance); else the closest rates. When
- * nothing moves (a hub at rest) the steadiest distances decide. Null when no such set exists.
+ * apart: first the sets that move (mean |rate| ≥ STILL_DEG_S) with angular rates (deg/s) that agree within noise — a
+ * still spot next to turning markers is left out, and so is a particle, which drifts at its own rate — then the
+ * rest; within either class the steadiest distances from the centre decide (a particle drifting past changes its
+ * distance). A hub that barely turns over the window (a slow run) thus falls to the steadiest distances, where a
+ * moving particle does not win by moving. Null when no such set exists.
  */
 export function pickTurningTogether<C extends { radii: number[]; turn: { first_t: number; t: number; travel: number }; last: SpotReading }>(candidates: C[], count: number): C[] | null {
   const rate = (c: C): number => (c.turn.t > c.turn.first_t ? c.turn.travel / (c.turn.t - c.turn.first_t) : 0);
   const spread = (c: C): number => robustSpread(c.radii).sigma;
-  let best: { set: C[]; moving: boolean; together: boolean; range: number; steadiness: number } | null = null;
+  let best: { set: C[]; together: boolean; steadiness: number } | null = null;
   const consider = (set: C[]): void => {
     for (let a = 0; a < set.length; a++) for (let b = a + 1; b < set.length; b++) if (Math.hypot(set[a]!.last.x_px - set[b]!.last.x_px, set[a]!.last.y_px - set[b]!.last.y_px) <= 4) return;
     const rates = set.map(rate);
     const moving = rates.reduce((s, r) => s + Math.abs(r), 0) / rates.length >= STILL_DEG_S;
     const range = Math.max(...rates) - Math.min(...rates);
     const steadiness = set.reduce((s, c) => s + spread(c), 0);
-    // rates that agree within noise (2 deg/s, or a tenth of the rate) count as turning together; between such sets the
-    // steadier distances decide, otherwise the closer rates
-    const together = range <= Math.max(2, 0.1 * Math.max(...rates.map(Math.abs)));
-    const better = !best
-      || (moving !== best.moving ? moving
-        : !moving ? steadiness < best.steadiness
-          : together !== best.together ? together
-            : together ? steadiness < best.steadiness : range < best.range);
-    if (better) best = { set, moving, together, range, steadiness };
+    // rates that agree within noise (2 deg/s, or a tenth of the rate) count as turning together; a set that moves and
+    // turns together comes first, and within either class the steadier distances from the centre decide
+    const together = moving && range <= Math.max(2, 0.1 * Math.max(...rates.map(Math.abs)));
+    const better = !best || (together !== best.together ? together : steadiness < best.steadiness);
+    if (better) best = { set, together, steadiness };
   };
   const pick = (from: number, set: C[]): void => {
     if (set.length === count) { consider(set); return; }
