@@ -14,7 +14,8 @@ const { jStat } = jstatModule;
  * below the true q more often than 1 − level (a review measured 46–89 % coverage of the bound for walks the fit
  * missed); the interval built on it (wanderAllowedVariance) still covered 95–100 % (bench/RESULTS.md).
  * The search runs on a doubling grid from the score test's detection scale 1/√I_qq (walkInformation, Whittle),
- * stopping three points after the likelihood has fallen below the cut, then bisects in ln q; at the grid's end
+ * stopping three points after the likelihood has fallen below the cut, refines the peak between its neighbours
+ * (golden section in ln q) and bisects in ln q for the crossing; at the grid's end
  * (2¹⁶ times that scale) it returns the grid's end. Rows [lo, hi) of t (s, increasing) and y (deg); level ≥ 0.5.
  */
 export function walkUpperBound(t: Float64Array, y: Float64Array, lo: number, hi: number, model: AngleNoiseModel, level: number): number {
@@ -27,27 +28,48 @@ export function walkUpperBound(t: Float64Array, y: Float64Array, lo: number, hi:
   const like = (q: number): number => restrictedLogLikelihood(t, y, lo, hi, { ...model, walk_deg2_per_s: q });
   // walk up the grid until the likelihood has fallen below the cut for good (it has one peak in practice)
   const cutBelow = (z * z) / 2;
-  let best = like(0);
-  let lastInside = 0;
+  const qs: number[] = [0];
+  const values: number[] = [like(0)];
+  let bestAt = 0;
   let below = 0;
+  let ended = true;
   for (let k = -4; k <= 16; k++) {
     const q = scale * 2 ** k;
     const v = like(q);
-    if (v > best) best = v;
-    if (v >= best - cutBelow) { lastInside = q; below = 0; }
-    else if (++below >= 3) {
-      // bisect in ln q between the last q inside and the next grid point
-      let inQ = Math.max(lastInside, scale * 2 ** -5);
-      let outQ = 2 * inQ;
-      for (let step = 0; step < 8 && outQ / inQ > 1.01; step++) {
-        const mid = Math.sqrt(inQ * outQ);
-        if (like(mid) >= best - cutBelow) inQ = mid;
-        else outQ = mid;
-      }
-      return Math.sqrt(inQ * outQ);
-    }
+    qs.push(q);
+    values.push(v);
+    if (v > values[bestAt]!) bestAt = values.length - 1;
+    if (v >= values[bestAt]! - cutBelow) below = 0;
+    else if (++below >= 3) { ended = false; break; }
   }
-  return scale * 2 ** 16; // still inside at the grid's end: a wander far above the detection scale
+  if (ended) return scale * 2 ** 16; // still inside at the grid's end: a wander far above the detection scale
+  // the peak between its grid neighbours (golden-section search in ln q), so the cut is measured from the true best
+  let best = values[bestAt]!;
+  if (bestAt > 0) {
+    let a = Math.log(qs[Math.max(1, bestAt - 1)]!);
+    let b = Math.log(qs[Math.min(qs.length - 1, bestAt + 1)]!);
+    const g = (Math.sqrt(5) - 1) / 2;
+    let c = b - g * (b - a);
+    let d = a + g * (b - a);
+    let fc = like(Math.exp(c));
+    let fd = like(Math.exp(d));
+    for (let step = 0; step < 12; step++) {
+      if (fc > fd) { b = d; d = c; fd = fc; c = b - g * (b - a); fc = like(Math.exp(c)); }
+      else { a = c; c = d; fc = fd; d = a + g * (b - a); fd = like(Math.exp(d)); }
+    }
+    best = Math.max(best, fc, fd);
+  }
+  // the last grid point above the cut and the next one bracket the bound; bisect in ln q between them
+  let inside = bestAt;
+  while (inside + 1 < qs.length && values[inside + 1]! >= best - cutBelow) inside++;
+  let inQ = Math.max(qs[inside]!, scale * 2 ** -5);
+  let outQ = inside + 1 < qs.length ? qs[inside + 1]! : 2 * inQ;
+  for (let step = 0; step < 10 && outQ / inQ > 1.005; step++) {
+    const mid = Math.sqrt(inQ * outQ);
+    if (like(mid) >= best - cutBelow) inQ = mid;
+    else outQ = mid;
+  }
+  return Math.sqrt(inQ * outQ);
 }
 
 /** A slope variance that allows for a walk up to a bound, with the Student-t df of that variance. */

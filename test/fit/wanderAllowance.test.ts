@@ -82,6 +82,20 @@ describe('wanderAllowedVariance', () => {
 });
 
 describe('walkUpperBound', () => {
+  it('sits where the restricted likelihood has fallen z²/2 = 1.353 below its best (z = 1.645, one-sided 95%)', () => {
+    // the defining equation of the bound, checked with the likelihood verified above against the dense formula and
+    // a maximum found by a plain scan over q (not the function's own search); 1.645²/2 from the normal table
+    const { t_s, angle_deg } = simulateSteady({ seed: 4711, n: 1200, fps: 60, rate_deg_s: 0.4, white_deg: 0.3, walk_deg_sqrt_s: 0.05 });
+    const model = { white_var_deg2: 0.09, ar_var_deg2: 0, ar_time_s: 1, walk_deg2_per_s: 0 };
+    const like = (q: number) => restrictedLogLikelihood(t_s, angle_deg, 0, t_s.length, { ...model, walk_deg2_per_s: q });
+    let best = like(0);
+    for (let k = 0; k <= 400; k++) best = Math.max(best, like(1e-6 * 1.05 ** k));
+    const bound = walkUpperBound(t_s, angle_deg, 0, t_s.length, model, 0.95);
+    expect(best - like(bound)).toBeGreaterThan(1.3);
+    expect(best - like(bound)).toBeLessThan(1.41);
+    // a two-sided slip (z = 1.96, drop 1.92) or the other tail would miss this band
+  });
+
   it('lies above the true walk in about 95% of seeded series (one-sided likelihood bound; Self & Liang 1987)', () => {
     // 80 series of 1200 frames (20 s at 60 fps), white 0.3° + a walk of 0.05 deg/√s; the noise model is the
     // true one without its walk. Binomial: 95% of 80 = 76, SD ≈ 2, so ≥ 70 is the band's lower edge.
