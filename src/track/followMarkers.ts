@@ -1,5 +1,6 @@
 import { findSpots, type Spot, type Window } from './findSpots.js';
 import { robustSpread } from './robustSpread.js';
+import { wrapDeg } from './rotorPlaneAngle.js';
 import { createSpotFollower, type SpotFollower, type SpotReading } from './spotFollower.js';
 
 /** Frames a lost marker's extrapolated place is still blanked for the other followers. */
@@ -107,17 +108,20 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
   /** True on the frame the markers were chosen: the followers have already measured it, so it is not measured again. */
   let justChosen = false;
 
-  /** Hands the chosen followers over as the markers, numbered counterclockwise about their mean position (as start does). */
-  const adopt = (chosen: { follower: SpotFollower; last: SpotReading }[]): void => {
-    const mx = chosen.reduce((s, c) => s + c.last.x_px, 0) / chosen.length;
-    const my = chosen.reduce((s, c) => s + c.last.y_px, 0) / chosen.length;
-    const polar = (c: { last: SpotReading }): number => {
-      const a = Math.atan2(-(c.last.y_px - my), c.last.x_px - mx);
+  /**
+   * Takes these followers on as the markers, each at its spot (position and area, px), numbered counterclockwise as
+   * displayed from the image's +x direction about their mean position.
+   */
+  const adopt = (spots: { follower: SpotFollower; x_px: number; y_px: number; area_px: number }[]): void => {
+    const mx = spots.reduce((s, p) => s + p.x_px, 0) / spots.length;
+    const my = spots.reduce((s, p) => s + p.y_px, 0) / spots.length;
+    const polar = (p: { x_px: number; y_px: number }): number => {
+      const a = Math.atan2(-(p.y_px - my), p.x_px - mx);
       return a < 0 ? a + 2 * Math.PI : a;
     };
-    for (const c of [...chosen].sort((a, b) => polar(a) - polar(b))) {
-      followers.push(c.follower);
-      last.push({ x: c.last.x_px, y: c.last.y_px, dx: 0, dy: 0, age: 0, r: Math.sqrt(Math.max(4, c.last.area_px ?? 4) / Math.PI) });
+    for (const p of [...spots].sort((a, b) => polar(a) - polar(b))) {
+      followers.push(p.follower);
+      last.push({ x: p.x_px, y: p.y_px, dx: 0, dy: 0, age: 0, r: Math.sqrt(Math.max(4, p.area_px) / Math.PI) });
     }
   };
 
@@ -139,7 +143,7 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
       c.radii.push(Math.hypot(r.x_px - centre.x_px, r.y_px - centre.y_px));
       const angle = (Math.atan2(-(r.y_px - centre.y_px), r.x_px - centre.x_px) * 180) / Math.PI;
       if (Number.isNaN(c.turn.first_t)) c.turn.first_t = t_s;
-      else c.turn.travel += ((((angle - c.turn.angle) % 360) + 540) % 360) - 180;
+      else c.turn.travel += wrapDeg(angle - c.turn.angle);
       c.turn.angle = angle;
       c.turn.t = t_s;
       c.last = r;
@@ -150,7 +154,7 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
     const chosen = pickTurningTogether(usable, count);
     candidates = null;
     if (!chosen) return false; // start again at a later frame
-    adopt(chosen);
+    adopt(chosen.map((c) => ({ follower: c.follower, x_px: c.last.x_px, y_px: c.last.y_px, area_px: c.last.area_px ?? 4 })));
     justChosen = true;
     return true;
   };
@@ -164,17 +168,7 @@ export function createMarkerFollowers(options: FollowMarkersOptions) {
     const inside = (p: { x_px: number; y_px: number; area_px: number }): boolean =>
       Math.min(p.x_px - region.x0, region.x1 - 1 - p.x_px, p.y_px - region.y0, region.y1 - 1 - p.y_px) > Math.sqrt(p.area_px / Math.PI);
     const spots = [...found.filter(inside), ...found.filter((p) => !inside(p))].slice(0, count);
-    const mx = spots.reduce((s, p) => s + p.x_px, 0) / count;
-    const my = spots.reduce((s, p) => s + p.y_px, 0) / count;
-    const polar = (p: { x_px: number; y_px: number }): number => {
-      const a = Math.atan2(-(p.y_px - my), p.x_px - mx);
-      return a < 0 ? a + 2 * Math.PI : a;
-    };
-    spots.sort((p, q) => polar(p) - polar(q));
-    for (const s of spots) {
-      followers.push(createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px }, ...(options.centre ? { centre: options.centre } : {}) }));
-      last.push({ x: s.x_px, y: s.y_px, dx: 0, dy: 0, age: 0, r: Math.sqrt(Math.max(4, s.area_px) / Math.PI) });
-    }
+    adopt(spots.map((s) => ({ follower: createSpotFollower({ region, start: { x_px: s.x_px, y_px: s.y_px }, centre: options.centre }), x_px: s.x_px, y_px: s.y_px, area_px: s.area_px })));
     return true;
   };
 

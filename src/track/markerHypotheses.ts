@@ -37,7 +37,7 @@ export function createMarkerHypotheses(options: { region: Window; centre?: { x_p
       if (!paths) {
         const spots = findSpots(signal, width, options.region).spots.slice(0, MOST_CANDIDATES);
         if (spots.length > 0) {
-          for (const s of spots) followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px }, ...(options.centre ? { centre: options.centre } : {}) }));
+          for (const s of spots) followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px }, centre: options.centre }));
           paths = new MarkerPathStore(followers.length);
           for (let i = 0; i < frames; i++) paths.pushLost('lost:no-blob');
         }
