@@ -1,5 +1,5 @@
 import jstatModule from 'jstat';
-import type { Estimate, SegmentRate, SteadyResult, WanderAllowance } from './FitReport.js';
+import type { Estimate, SegmentRate, SteadyResult, WanderAllowance, ZeroTest } from './FitReport.js';
 import { walkUpperBound, wanderAllowedVariance } from './wanderAllowance.js';
 import type { ModelFit } from './ModelFit.js';
 import { linearLeastSquares } from './linearLeastSquares.js';
@@ -338,20 +338,19 @@ export function jackknifeDfWithNoiseModel(nuJackknife: number, kappa: number, lo
  * rule out in this window: up to walkUpperBound, added by wanderAllowedVariance. When the model holds a walk, the
  * main interval already allows for the wander it found and is repeated here (bound null).
  */
-function allowForHiddenWalk(t: Float64Array, y: Float64Array, whole: SlopeFit, model: AngleNoiseModel, rate: Estimate, df: number, level: number,
+function allowForHiddenWalk(t: Float64Array, y: Float64Array, whole: SlopeFit, model: AngleNoiseModel, rate: Estimate, zero: ZeroTest, df: number, level: number,
   margin_deg_s: number | undefined): WanderAllowance {
+  if (model.walk_deg2_per_s > 0 || !whole.walkSensitivity) return { hidden_walk_bound_deg_per_sqrt_s: null, rate_deg_s: rate, zero_test: zero };
   const tests = { level, ...(margin_deg_s !== undefined ? { margin_deg_s } : {}) };
-  if (model.walk_deg2_per_s > 0 || !whole.walkSensitivity) {
-    return { hidden_walk_bound_deg_per_sqrt_s: null, rate_deg_s: rate, zero_test: zeroTest(whole.slope, whole.se, df, tests) };
-  }
   const bound = walkUpperBound(t, y, 0, t.length, model, level);
   const allowed = wanderAllowedVariance(whole.se ** 2, whole.df, bound, whole.walkSensitivity);
   const se = Math.sqrt(allowed.variance);
   // the df treat the allowance as known; where that would make this interval narrower than the main one (a small
   // allowance on few df), the main df are kept, so allowing for wander never narrows the interval
   const wide = estimate(whole.slope, se, allowed.df, level);
-  const dfAllowing = wide.ci[1] - wide.ci[0] < rate.ci[1] - rate.ci[0] ? df : allowed.df;
-  return { hidden_walk_bound_deg_per_sqrt_s: Math.sqrt(bound), rate_deg_s: estimate(whole.slope, se, dfAllowing, level), zero_test: zeroTest(whole.slope, se, dfAllowing, tests) };
+  const narrower = wide.ci[1] - wide.ci[0] < rate.ci[1] - rate.ci[0];
+  const dfAllowing = narrower ? df : allowed.df;
+  return { hidden_walk_bound_deg_per_sqrt_s: Math.sqrt(bound), rate_deg_s: narrower ? estimate(whole.slope, se, df, level) : wide, zero_test: zeroTest(whole.slope, se, dfAllowing, tests) };
 }
 
 function estimate(value: number, se: number, df: number, level: number): Estimate {
@@ -474,7 +473,8 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
   const whole = glsSlope(t, y, 0, n, model, 8, true);
   const df = jackknifeDfWithNoiseModel(whole.df, whole.walkKappa, logWalkVariance(model, delta, t[n - 1]!, n));
   const rate = estimate(whole.slope, whole.se, df, level);
-  const wander = allowForHiddenWalk(t, y, whole, model, rate, df, level, options.margin_deg_s);
+  const zero = zeroTest(whole.slope, whole.se, df, { level, ...(options.margin_deg_s !== undefined ? { margin_deg_s: options.margin_deg_s } : {}) });
+  const wander = allowForHiddenWalk(t, y, whole, model, rate, zero, df, level, options.margin_deg_s);
 
   // segment rates
   let k = options.segments ?? Math.max(2, Math.min(10, Math.floor(n / 50)));
@@ -514,7 +514,7 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
 
   const warnings: string[] = [];
   const alpha = 1 - level;
-  if (wander.hidden_walk_bound_deg_per_sqrt_s !== null && whole.se > 0 && zeroTest(whole.slope, whole.se, df).p_value < alpha && wander.zero_test.p_value >= alpha) {
+  if (wander.hidden_walk_bound_deg_per_sqrt_s !== null && whole.se > 0 && zero.p_value < alpha && wander.zero_test.p_value >= alpha) {
     const [lo, hi] = wander.rate_deg_s.ci;
     warnings.push(
       `the rate differs from zero only if it does not wander by about ${wander.hidden_walk_bound_deg_per_sqrt_s.toPrecision(2)} deg/√s or more, which this window is too short to rule out; allowing for such wander the ${Math.round(level * 100)}% interval is ${lo.toPrecision(3)} to ${hi.toPrecision(3)} deg/s (p = ${wander.zero_test.p_value.toPrecision(2)}) — a longer window narrows it`,
@@ -530,7 +530,7 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
     rate_rpm: scaleEstimate(rate, RPM_PER_DEG_S),
     rate_rev_s: scaleEstimate(rate, REV_S_PER_DEG_S),
     segments,
-    zero_test: zeroTest(whole.slope, whole.se, df, { level, ...(options.margin_deg_s !== undefined ? { margin_deg_s: options.margin_deg_s } : {}) }),
+    zero_test: zero,
     min_detectable_deg_s: minDetectableRate(whole.se, df, level),
     wander_allowance: wander,
     ...(segmentP !== null ? { segment_p_value: segmentP } : {}),

@@ -151,9 +151,9 @@ export function buildComparison(runs: readonly { record: RunRecord; fit: FitRepo
         allowing = compareDirections(pool('forward'), pool('reverse'), { level, margin_deg_s: margin });
         const before = directionVerdict(comparison, level);
         const after = directionVerdict(allowing, level);
-        if (after !== before && after === 'direction not settled') {
-          const words = after === 'direction not settled' ? 'the sense of the reverse direction is not settled' : `the reverse direction ${after}`;
-          notes.push(`Allowing for a rate wander too small for the runs to detect, ${words} (p = ${allowing.p_opposite.toPrecision(2)} for turning the other way).`);
+        // said only when allowing for wander unsettles a verdict the main intervals gave
+        if (before !== 'direction not settled' && after === 'direction not settled') {
+          notes.push(`Allowing for a rate wander too small for the runs to detect, the sense of the reverse direction is not settled (p = ${allowing.p_opposite.toPrecision(2)} for turning the other way).`);
         }
       }
     } else notes.push(forward.pooled ? 'No reverse run at this setting.' : 'No forward run at this setting.');
