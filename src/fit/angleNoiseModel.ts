@@ -36,6 +36,22 @@ export interface NoiseInformation {
   information: Float64Array;
 }
 
+/** The AR part's coefficient per frame interval δ, φ = exp(−δ/τ_c) (0 without an AR part). */
+function arCoefficient(model: AngleNoiseModel, delta_s: number): number {
+  return model.ar_var_deg2 > 0 ? Math.exp(-delta_s / model.ar_time_s) : 0;
+}
+
+/**
+ * The frame-to-frame increments' spectral density (per frame) at a frequency λ with cos λ = c, and its parts:
+ * f = qδ + diff·(σ² + ar), diff = 2 − 2c, ar = s²(1 − φ²)/den, den = 1 − 2φc + φ² (φ from arCoefficient), deg².
+ */
+function incrementSpectrum(model: AngleNoiseModel, delta_s: number, phi: number, c: number): { diff: number; den: number; ar: number; f: number } {
+  const diff = 2 - 2 * c;
+  const den = 1 - 2 * phi * c + phi * phi;
+  const ar = (model.ar_var_deg2 * (1 - phi * phi)) / den;
+  return { diff, den, ar, f: model.walk_deg2_per_s * delta_s + diff * (model.white_var_deg2 + ar) };
+}
+
 /**
  * Whittle (1953) Fisher information of the positive parameters of an AngleNoiseModel, on the log scale,
  * for a regular series of `frames` frames every delta_s. The frame-to-frame increments of the angle are
@@ -59,15 +75,12 @@ export function noiseInformation(model: AngleNoiseModel, delta_s: number, frames
   const white = model.white_var_deg2;
   const s2 = model.ar_var_deg2;
   const walk = model.walk_deg2_per_s * delta_s;
-  const phi = s2 > 0 ? Math.exp(-delta_s / model.ar_time_s) : 0;
+  const phi = arCoefficient(model, delta_s);
   const dPhi = s2 > 0 ? phi * (delta_s / model.ar_time_s) : 0; // ∂φ/∂ln τ_c
   const g = new Float64Array(p);
   for (let j = 1; 2 * j < m; j++) {
     const c = Math.cos((2 * Math.PI * j) / m);
-    const diff = 2 - 2 * c;
-    const den = 1 - 2 * phi * c + phi * phi;
-    const ar = (s2 * (1 - phi * phi)) / den;
-    const f = walk + diff * (white + ar);
+    const { diff, den, ar, f } = incrementSpectrum(model, delta_s, phi, c);
     if (!(f > 0)) continue;
     const dArDPhi = (s2 * (-2 * phi * den - (1 - phi * phi) * (2 * phi - 2 * c))) / (den * den);
     for (let a = 0; a < p; a++) {
@@ -86,20 +99,16 @@ export function noiseInformation(model: AngleNoiseModel, delta_s: number, frames
 /**
  * Whittle information about the walk diffusion q on its linear scale, (deg²/s)⁻², at the model's own q (the
  * usual case: a model without a walk part, q = 0): I_qq = Σ_j (δ/f(λ_j))² over the Fourier frequencies
- * 0 < λ_j < π of the m = frames − 1 increments, with f the increment spectrum of noiseInformation (∂f/∂q = δ).
+ * 0 < λ_j < π of the m = frames − 1 increments, with f the increment spectrum (incrementSpectrum; ∂f/∂q = δ).
  * At q = 0 this is the information of the score test for an added walk; it is dominated by the lowest
  * frequencies, where the differenced stationary noise has almost no power. Infinity when f vanishes there.
  */
 export function walkInformation(model: AngleNoiseModel, delta_s: number, frames: number): number {
   const m = Math.max(0, Math.round(frames) - 1);
-  const white = model.white_var_deg2;
-  const s2 = model.ar_var_deg2;
-  const walk = model.walk_deg2_per_s * delta_s;
-  const phi = s2 > 0 ? Math.exp(-delta_s / model.ar_time_s) : 0;
+  const phi = arCoefficient(model, delta_s);
   let info = 0;
   for (let j = 1; 2 * j < m; j++) {
-    const c = Math.cos((2 * Math.PI * j) / m);
-    const f = walk + (2 - 2 * c) * (white + (s2 * (1 - phi * phi)) / (1 - 2 * phi * c + phi * phi));
+    const { f } = incrementSpectrum(model, delta_s, phi, Math.cos((2 * Math.PI * j) / m));
     if (!(f > 0)) return Infinity;
     info += (delta_s / f) ** 2;
   }
