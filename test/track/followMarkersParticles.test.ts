@@ -7,21 +7,9 @@ import { renderClip } from '../../src/synth/renderClip.js';
 import { trackVideo } from '../../src/track/trackVideo.js';
 import { offsetRemovedErrors } from './angleErrors.js';
 import { createMarkerFollowers } from '../../src/track/followMarkers.js';
+import { DRAWN_SIZE, drawDiscs } from './drawDiscs.js';
 
-const W = 200;
-/** A 200×200 image: background 60 with a ±3 ripple and bright discs (200) of radius r, edge pixels by coverage. */
-function draw(discs: { x: number; y: number; r: number }[]): Uint8Array {
-  const img = new Uint8Array(W * W);
-  for (let j = 0; j < W; j++) {
-    for (let i = 0; i < W; i++) {
-      let cover = 0;
-      const near = discs.filter((d) => Math.abs(i - d.x) <= d.r + 1 && Math.abs(j - d.y) <= d.r + 1);
-      if (near.length > 0) for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (near.some((d) => Math.hypot(i - 0.375 + sx / 4 - d.x, j - 0.375 + sy / 4 - d.y) <= d.r)) cover++;
-      img[j * W + i] = Math.round(60 + 3 * Math.sin(1.3 * i + 2.1 * j) + (140 * cover) / 16);
-    }
-  }
-  return img;
-}
+const W = DRAWN_SIZE;
 
 describe('createMarkerFollowers with a known centre and a still spot in the region', () => {
   it('takes the two spots that turn together, not the still one (a bolt head, a reflection)', () => {
@@ -32,7 +20,7 @@ describe('createMarkerFollowers with a known centre and a still spot in the regi
       for (let k = 0; k < 60; k++) {
         const a = (degPerFrame * k * Math.PI) / 180;
         // two markers opposite each other on an ellipse of semi-axes 70 and b (b < 70: an oblique view), and a still spot
-        const readings = f.update(draw([{ x: 100 + 70 * Math.cos(a), y: 100 - b * Math.sin(a), r: 4 }, { x: 100 - 70 * Math.cos(a), y: 100 + b * Math.sin(a), r: 4 }, { x: 25, y: 20, r: 4 }]), W, k / 30);
+        const readings = f.update(drawDiscs([{ x: 100 + 70 * Math.cos(a), y: 100 - b * Math.sin(a), r: 4 }, { x: 100 - 70 * Math.cos(a), y: 100 + b * Math.sin(a), r: 4 }, { x: 25, y: 20, r: 4 }]), W, k / 30);
         for (const r of readings) {
           if (r.flag !== '') continue;
           kept++;

@@ -1,24 +1,13 @@
 // createSpotFollower on drawn images whose spot positions we know: a marker at rest that starts to turn.
 import { describe, expect, it } from 'vitest';
 import { createSpotFollower } from '../../src/track/spotFollower.js';
+import { DRAWN_SIZE, drawDiscs } from './drawDiscs.js';
 
-const W = 200;
-const H = 200;
+const W = DRAWN_SIZE;
+const H = DRAWN_SIZE;
 
-/** A 200×200 image: background 60 with a deterministic ±3 ripple, and bright discs (200) of the given radii (default 4 px) centred at the given points, edge pixels by coverage. */
-function drawSpot(x: number, y: number, more: { x: number; y: number; r: number }[] = []): Uint8Array {
-  const discs = [{ x, y, r: 4 }, ...more];
-  const img = new Uint8Array(W * H);
-  for (let j = 0; j < H; j++) {
-    for (let i = 0; i < W; i++) {
-      let cover = 0;
-      const near = discs.filter((d) => Math.abs(i - d.x) <= d.r + 1 && Math.abs(j - d.y) <= d.r + 1);
-      if (near.length > 0) for (let sy = 0; sy < 4; sy++) for (let sx = 0; sx < 4; sx++) if (near.some((d) => Math.hypot(i - 0.375 + sx / 4 - d.x, j - 0.375 + sy / 4 - d.y) <= d.r)) cover++;
-      img[j * W + i] = Math.round(60 + 3 * Math.sin(1.3 * i + 2.1 * j) + (140 * cover) / 16);
-    }
-  }
-  return img;
-}
+/** A drawn image (drawDiscs) with a marker disc of radius 4 px at (x, y) and any further discs. */
+const drawSpot = (x: number, y: number, more: { x: number; y: number; r: number }[] = []): Uint8Array => drawDiscs([{ x, y, r: 4 }, ...more]);
 
 /** Angle of a hub at rest until 10/30 s, then spinning up towards 1440°/s with τ = 0.4 s, deg (first-order spin-up in closed form; common practice, no source). */
 const spinUpDeg = (t: number): number => (t <= 1 / 3 ? 0 : 1440 * (t - 1 / 3 - 0.4 * (1 - Math.exp(-(t - 1 / 3) / 0.4))));
