@@ -24,24 +24,33 @@ function reason(code: string | undefined): string {
   }
 }
 
+/** How many times the probe is tried again when a parallel run removes the folder between its making and the probe. */
+const ATTEMPTS = 5;
+
 /**
  * Proves `dir` writable by creating (and removing again) any missing levels and an empty probe file,
  * so a command fails in its first second with one sentence naming `option` rather than after the
- * work, and a command that fails later leaves no empty folder behind.
+ * work, and a command that fails later leaves no empty folder behind. Parallel runs on one folder
+ * (shards) each remove only the levels they made, and only while empty; a probe that finds its
+ * folder gone for that reason is tried again.
  */
 export async function ensureWritableFolder(dir: string, option: string): Promise<void> {
-  const fail = (err: unknown): never => {
-    throw new InputError(`cannot write to ${option} ${dir} (${reason((err as NodeJS.ErrnoException).code)}); choose a folder you can write to`, { cause: err });
-  };
-  let made: string[] = [];
+  const made: string[] = [];
   try {
-    made = await makeFolders(dir);
-    const probe = join(dir, `.revtrace-write-probe.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
-    const handle = await open(probe, 'wx');
-    await handle.close();
-    await rm(probe, { force: true });
+    for (let attempt = 1; ; attempt++) {
+      for (const level of await makeFolders(dir)) if (!made.includes(level)) made.push(level);
+      try {
+        const probe = join(dir, `.revtrace-write-probe.${process.pid}.${randomBytes(4).toString('hex')}.tmp`);
+        const handle = await open(probe, 'wx');
+        await handle.close();
+        await rm(probe, { force: true });
+        return;
+      } catch (err) {
+        if ((err as NodeJS.ErrnoException).code !== 'ENOENT' || attempt >= ATTEMPTS) throw err;
+      }
+    }
   } catch (err) {
-    fail(err);
+    throw new InputError(`cannot write to ${option} ${dir} (${reason((err as NodeJS.ErrnoException).code)}); choose a folder you can write to`, { cause: err });
   } finally {
     for (const level of made.reverse()) await rmdir(level).catch(() => {}); // a parallel run may have filled it meanwhile
   }
