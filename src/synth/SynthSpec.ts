@@ -124,14 +124,24 @@ function isObject(v: unknown): v is Record<string, unknown> {
   return typeof v === 'object' && v !== null && !Array.isArray(v);
 }
 
+/** A range bound shown to a person: six significant digits, rounded inwards so that the shown value is itself allowed. */
+function shownBound(x: number, inwards: 'up' | 'down'): string {
+  if (x === 0 || !Number.isFinite(x)) return String(x);
+  const step = 10 ** (Math.floor(Math.log10(Math.abs(x))) - 5);
+  const r = (inwards === 'up' ? Math.ceil(x / step) : Math.floor(x / step)) * step;
+  return String(Number(r.toPrecision(6)));
+}
+
 /** Checks a finite number within [min, max]; the message names the field and the allowed range. */
 function num(value: unknown, name: string, min: number, max: number, fallback: number, integer = false): number {
   const v = value === undefined ? fallback : value;
+  const lo = shownBound(min, 'up');
+  const hi = shownBound(max, 'down');
   if (typeof v !== 'number' || !Number.isFinite(v)) {
-    throw new InputError(`synth ${name} must be a number, got ${JSON.stringify(value)}; give a value from ${min} to ${max}`);
+    throw new InputError(`synth ${name} must be a number, got ${JSON.stringify(value)}; give a value from ${lo} to ${hi}`);
   }
-  if (integer && !Number.isInteger(v)) throw new InputError(`synth ${name} must be a whole number, got ${v}; give an integer from ${min} to ${max}`);
-  if (v < min || v > max) throw new InputError(`synth ${name} is ${v}, outside ${min}–${max}; give a value in that range`);
+  if (integer && !Number.isInteger(v)) throw new InputError(`synth ${name} must be a whole number, got ${v}; give an integer from ${lo} to ${hi}`);
+  if (v < min || v > max) throw new InputError(`synth ${name} is ${v}, outside ${lo}–${hi}; give a value in that range`);
   return v;
 }
 

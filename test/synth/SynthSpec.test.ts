@@ -76,4 +76,10 @@ describe('resolveSynthSpec', () => {
       expect(message).not.toMatch(/\.\s+[A-Z]/);
     }
   });
+
+  it('shows a range bound a person can type back: six digits, rounded inwards (30 fps: exposure at most 1/30 s)', () => {
+    const message = messageFor({ fps: 30, realism: { exposure_s: 0.04 } });
+    expect(message).toBe('synth realism.exposure_s is 0.04, outside 0–0.0333333; give a value in that range');
+    expect(() => resolveSynthSpec({ fps: 30, realism: { exposure_s: 0.0333333 } })).not.toThrow();
+  });
 });
