@@ -126,10 +126,11 @@ function isObject(v: unknown): v is Record<string, unknown> {
 
 /** A range bound shown to a person: six significant digits, rounded inwards so that the shown value is itself allowed. */
 function shownBound(x: number, inwards: 'up' | 'down'): string {
-  if (x === 0 || !Number.isFinite(x)) return String(x);
+  const near = Number(x.toPrecision(6));
+  if (near === x || !Number.isFinite(x)) return String(x);
   const step = 10 ** (Math.floor(Math.log10(Math.abs(x))) - 5);
-  const r = (inwards === 'up' ? Math.ceil(x / step) : Math.floor(x / step)) * step;
-  return String(Number(r.toPrecision(6)));
+  const inside = inwards === 'up' ? (near > x ? near : near + step) : near < x ? near : near - step;
+  return String(Number(inside.toPrecision(6)));
 }
 
 /** Checks a finite number within [min, max]; the message names the field and the allowed range. */

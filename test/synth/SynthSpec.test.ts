@@ -81,5 +81,6 @@ describe('resolveSynthSpec', () => {
     const message = messageFor({ fps: 30, realism: { exposure_s: 0.04 } });
     expect(message).toBe('synth realism.exposure_s is 0.04, outside 0–0.0333333; give a value in that range');
     expect(() => resolveSynthSpec({ fps: 30, realism: { exposure_s: 0.0333333 } })).not.toThrow();
+    expect(messageFor({ fps: 0 })).toBe('synth fps is 0, outside 1–1000; give a value in that range'); // exact bounds stay as they are
   });
 });
