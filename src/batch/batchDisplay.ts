@@ -1,5 +1,6 @@
 import cliProgress from 'cli-progress';
 import type { BatchEvent } from './BatchEvent.js';
+import { leftOutWords } from './leftOutWords.js';
 
 /** How a batch shows what it does: live bars on a terminal, plain lines, only problems, or JSON lines. */
 export type DisplayMode = 'bars' | 'lines' | 'quiet' | 'json';
@@ -30,7 +31,7 @@ export function describeEvent(e: BatchEvent): string | null {
       return `batch: ${part} → ${e.out_dir}, ${e.jobs} at a time`;
     }
     case 'cleaned': return `removed ${e.files.length} temporary file${e.files.length === 1 ? '' : 's'} left by an interrupted batch`;
-    case 'stray': return `note: runs/ also holds ${e.runs.join(', ')}, not in this manifest; they stay in the summary until you delete their folders`;
+    case 'stray': return `note: runs/ also holds ${leftOutWords(e.runs)}, not in this manifest; they are left out of the summary and the report (delete them if they are stale)`;
     case 'cached': return `${e.run}: unchanged since the last batch, kept (--force redoes it)`;
     case 'start': return `${e.run}: started`;
     case 'progress': return null;

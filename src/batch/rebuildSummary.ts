@@ -15,6 +15,8 @@ export interface BatchFile {
   failed: { run: string; error: string }[];
   /** run folders whose run.json could not be read (left out of the summary). */
   unreadable: { run: string; reason: string }[];
+  /** run folders under runs/ that are not in this batch's manifest (left out of the summary and the report; never deleted). */
+  left_out: string[];
   runs: {
     run: string;
     status: 'ok' | 'failed';
@@ -30,8 +32,20 @@ export interface BatchFile {
   }[];
 }
 
-/** Reads every committed runs/<run>/run.json under outDir, in summary order (manifest row, then run id). */
-export async function readRunRecords(outDir: string): Promise<{ records: RunRecord[]; unreadable: { run: string; reason: string }[] }> {
+/** What readRunRecords found under runs/. */
+export interface RunRecords {
+  records: RunRecord[];
+  /** Folders whose run.json could not be read. */
+  unreadable: { run: string; reason: string }[];
+  /** Folders not among the wanted runs (empty when every folder is wanted). */
+  left_out: string[];
+}
+
+/**
+ * Reads every committed runs/<run>/run.json under outDir, in summary order (manifest row, then run id).
+ * @param only the run ids wanted (a batch's manifest); other folders are named in `left_out`, not read. Default: all.
+ */
+export async function readRunRecords(outDir: string, only?: ReadonlySet<string>): Promise<RunRecords> {
   const runsDir = join(outDir, 'runs');
   let names: string[] = [];
   try {
@@ -41,7 +55,9 @@ export async function readRunRecords(outDir: string): Promise<{ records: RunReco
   }
   const records: RunRecord[] = [];
   const unreadable: { run: string; reason: string }[] = [];
+  const left_out = only ? names.filter((name) => !only.has(name)).sort() : [];
   for (const name of names.sort()) {
+    if (only && !only.has(name)) continue;
     let text: string;
     try {
       text = await readFile(join(runsDir, name, 'run.json'), 'utf8');
@@ -57,15 +73,17 @@ export async function readRunRecords(outDir: string): Promise<{ records: RunReco
     }
   }
   records.sort((a, b) => (a.row ?? Infinity) - (b.row ?? Infinity) || (a.run < b.run ? -1 : a.run > b.run ? 1 : 0));
-  return { records, unreadable };
+  return { records, unreadable, left_out };
 }
 
 /**
- * Rebuilds summary.csv (one row per run) and batch.json from all runs/<run>/run.json under outDir,
- * each written atomically. Shards written into one folder are merged this way.
+ * Rebuilds summary.csv (one row per run) and batch.json from the runs/<run>/run.json under outDir,
+ * each written atomically. Shards written into one folder are merged this way (no `only`: every folder).
+ * @param only the run ids to summarise (a batch's manifest); default all
  */
-export async function rebuildSummary(outDir: string): Promise<{ records: RunRecord[] }> {
-  const { records, unreadable } = await readRunRecords(outDir);
+export async function rebuildSummary(outDir: string, only?: ReadonlySet<string>): Promise<RunRecords> {
+  const found = await readRunRecords(outDir, only);
+  const { records, unreadable, left_out } = found;
   const csv = stringify(records.map(summaryRow), { header: true, columns: [...SUMMARY_COLUMNS] });
   const manifests = new Map<string, { path: string; sha256: string }>();
   for (const r of records) if (r.manifest) manifests.set(`${r.manifest.path}\n${r.manifest.sha256}`, r.manifest);
@@ -76,6 +94,7 @@ export async function rebuildSummary(outDir: string): Promise<{ records: RunReco
     software_versions: [...new Set(records.map((r) => r.software.version))].sort(),
     failed: records.filter((r) => r.status === 'failed').map((r) => ({ run: r.run, error: r.error ?? 'unknown' })),
     unreadable,
+    left_out,
     runs: records.map((r) => ({
       run: r.run,
       status: r.status,
@@ -92,5 +111,5 @@ export async function rebuildSummary(outDir: string): Promise<{ records: RunReco
   };
   await writeFileAtomic(join(outDir, 'summary.csv'), csv);
   await writeFileAtomic(join(outDir, 'batch.json'), `${JSON.stringify(batch, null, 2)}\n`);
-  return { records };
+  return found;
 }

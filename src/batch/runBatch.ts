@@ -222,7 +222,7 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
   const wantSummary = options.summary ?? !shard;
   let summaryWritten = false;
   if (wantSummary && !interrupted) {
-    const { records: all } = await rebuildSummary(outDir);
+    const { records: all } = await rebuildSummary(outDir, new Set(manifest.runs.map((r) => r.run)));
     summaryWritten = true;
     emit({ type: 'summary', summary_csv: join(outDir, 'summary.csv'), batch_json: join(outDir, 'batch.json'), runs: all.length });
   }

@@ -59,7 +59,7 @@ export function registerBatch(program: Command): void {
       let reportFailed = false;
       if (outcome.summary_written) {
         try {
-          const reportPath = await writeReport(outcome.out_dir, { title: outcome.manifest.name });
+          const reportPath = await writeReport(outcome.out_dir, { title: outcome.manifest.name, only: new Set(outcome.manifest.runs.map((r) => r.run)) });
           display.note(`report: ${reportPath}`, { report: reportPath });
         } catch (err) {
           reportFailed = true;

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { stat } from 'node:fs/promises';
-import { dirname, join } from 'node:path';
+import { basename, dirname, join } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 
@@ -38,5 +38,9 @@ export function registerReport(program: Command): void {
       const { records } = await rebuildSummary(dir);
       const path = await writeReport(dir, { out: o.out, title: o.title, margin_deg_s: margin });
       process.stdout.write(`report: ${path} (${records.length} run${records.length === 1 ? '' : 's'})\n`);
+      const manifests = [...new Set(records.flatMap((r) => (r.manifest ? [r.manifest.path] : [])))];
+      if (manifests.length > 1) {
+        process.stderr.write(`note: the runs come from ${manifests.length} manifests (${manifests.map((m) => basename(m)).join(', ')}) and are all pooled; delete stale run folders, or rerun revtrace batch with one manifest\n`);
+      }
     });
 }

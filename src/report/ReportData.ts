@@ -49,4 +49,6 @@ export interface ReportData {
   runs: RunData[];
   /** Run folders whose run.json could not be read. */
   unreadable: { run: string; reason: string }[];
+  /** Run folders under runs/ left out because they are not in the batch's manifest. */
+  left_out: string[];
 }

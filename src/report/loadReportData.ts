@@ -15,20 +15,21 @@ export const LINKED_RUN_FILES = ['angle.csv', 'rate.csv', 'fit.json', 'track.jso
  * Reads a batch output folder: every runs/<run>/run.json (the source of truth) and, for each run, the files
  * beside it. A missing or unreadable file becomes a problem sentence for that run, never a failure.
  * @param outDir the folder holding runs/
+ * @param only the run ids to report (a batch's manifest); other run folders are named in `left_out`. Default: all.
  */
-export async function loadReportData(outDir: string): Promise<ReportData> {
+export async function loadReportData(outDir: string, only?: ReadonlySet<string>): Promise<ReportData> {
   const dir = resolve(outDir);
   try {
     await readdir(join(dir, 'runs'));
   } catch {
     throw new InputError(`${outDir} has no runs/ folder; give the output folder of a batch (the one holding runs/).`);
   }
-  const { records, unreadable } = await readRunRecords(dir);
+  const { records, unreadable, left_out } = await readRunRecords(dir, only);
   const runs: RunData[] = [];
   for (const record of records) runs.push(await loadRun(join(dir, 'runs', record.run), record));
   const manifests = new Map<string, { path: string; sha256: string }>();
   for (const r of records) if (r.manifest) manifests.set(`${r.manifest.path}\n${r.manifest.sha256}`, r.manifest);
-  return { out_dir: dir, generated_at: new Date().toISOString(), software: { ...SOFTWARE }, manifests: [...manifests.values()], runs, unreadable };
+  return { out_dir: dir, generated_at: new Date().toISOString(), software: { ...SOFTWARE }, manifests: [...manifests.values()], runs, unreadable, left_out };
 }
 
 async function loadRun(runDir: string, record: RunData['record']): Promise<RunData> {

@@ -8,6 +8,7 @@ import { REPORT_CSS } from './reportStyle.js';
 import type { ReportData } from './ReportData.js';
 import { comparisonTables, runAnchor } from './renderComparisonSection.js';
 import { chartFigure, renderRunSection } from './renderRunSection.js';
+import { leftOutWords } from '../batch/leftOutWords.js';
 
 export interface RenderOptions {
   /** Report title; default names the manifest (or the batch folder). */
@@ -39,6 +40,7 @@ export async function renderReport(data: ReportData, options: RenderOptions = {}
   const warnings: SafeHtml[] = [];
   for (const r of data.runs) if (r.record.status === 'failed') warnings.push(html`<li>Run <a href="#${runAnchor(r.record.run)}">${r.record.run}</a> failed: ${r.record.error ?? 'no reason recorded'}</li>`);
   for (const u of data.unreadable) warnings.push(html`<li>Run folder ${u.run} has a run.json that could not be read (${u.reason}); it is left out.</li>`);
+  if (data.left_out.length > 0) warnings.push(html`<li>The output folder also holds ${leftOutWords(data.left_out)}, not in this batch's manifest; left out of this report and summary.csv (delete those folders if they are stale).</li>`);
   const runSections: SafeHtml[] = [];
   for (const r of data.runs) {
     try {

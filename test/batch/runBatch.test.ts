@@ -104,6 +104,25 @@ describe('runBatch with a stand-in processor', () => {
     expect(calls).toEqual(['f1a', 'f1b', 'f2a']);
   });
 
+  it('summarises only the manifest\'s runs: folders of runs dropped from it (or renamed) are named and left out, never deleted', async () => {
+    const { manifest, out } = await day(SIX);
+    await runBatch(manifest, { out, processor: fake() });
+    // the day's manifest loses r1b and renames f2a to f2a-redo (same clip): the old folders must not be pooled again
+    const text = await readFile(manifest, 'utf8');
+    await writeFile(manifest, text.split('\n').filter((l) => !l.includes('r1b')).join('\n').replace(',f2a,', ',f2a-redo,'));
+    const events: BatchEvent[] = [];
+    const o = await runBatch(manifest, { out, processor: fake(), onEvent: (e) => events.push(e) });
+    expect(o.cached).toBe(4);
+    expect((await readSummary(out)).map((r) => r.run)).toEqual(['f1a', 'f1b', 'f2a-redo', 'r1a', 'r2a']);
+    const batch = JSON.parse(await readFile(join(out, 'batch.json'), 'utf8')) as { left_out: string[]; counts: { runs: number } };
+    expect(batch.left_out).toEqual(['f2a', 'r1b']);
+    expect(batch.counts.runs).toBe(5);
+    expect(events.filter((e) => e.type === 'stray')).toEqual([{ type: 'stray', runs: ['f2a', 'r1b'] }]);
+    expect((await readdir(join(out, 'runs'))).sort()).toEqual(['f1a', 'f1b', 'f2a', 'f2a-redo', 'r1a', 'r1b', 'r2a']);
+    // without a manifest (merging shards), every folder counts
+    expect((await rebuildSummary(out)).records.map((r) => r.run).sort()).toEqual(['f1a', 'f1b', 'f2a', 'f2a-redo', 'r1a', 'r1b', 'r2a']);
+  });
+
   it('updates notes, group and setting of a cached run without redoing it', async () => {
     const { manifest, out } = await day(SIX.slice(0, 2));
     await runBatch(manifest, { out, processor: fake() });

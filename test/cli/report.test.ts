@@ -1,11 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
-import { mkdtemp, readFile, rm } from 'node:fs/promises';
+import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { writeTestBatch } from '../report/writeTestBatch.js';
+import { writeTestBatch, writeTestRun } from '../report/writeTestBatch.js';
 
 // Spawns bin/revtrace, which runs dist/: run `npm run build` first.
 const bin = fileURLToPath(new URL('../../bin/revtrace', import.meta.url));
@@ -40,6 +40,23 @@ describe('revtrace report <dir>', () => {
     const html = await readFile(out, 'utf8');
     expect(html).toContain('Equivalence margin ±0.5 deg/s (given for this report)');
     expect(html).toContain('href="../runs/f-2.0-a/angle.csv"');
+  });
+
+  it('says so (and still pools them) when the run folders come from more than one manifest', async () => {
+    const mixed = await mkdtemp(join(tmpdir(), 'revtrace-cli-report-mixed-'));
+    try {
+      await writeTestRun(mixed, { run: 'f1', direction: 'forward', setting: 1, rate_deg_s: 30 });
+      await writeTestRun(mixed, { run: 'r1', direction: 'reverse', setting: 1, rate_deg_s: -1 });
+      const recordPath = join(mixed, 'runs', 'r1', 'run.json');
+      const record = JSON.parse(await readFile(recordPath, 'utf8')) as { manifest: { path: string } };
+      record.manifest.path = '/lab/day2/older.csv';
+      await writeFile(recordPath, JSON.stringify(record));
+      const r = revtrace('report', mixed);
+      expect(r.status).toBe(0);
+      expect(r.stderr).toBe('note: the runs come from 2 manifests (manifest.csv, older.csv) and are all pooled; delete stale run folders, or rerun revtrace batch with one manifest\n');
+    } finally {
+      await rm(mixed, { recursive: true, force: true });
+    }
   });
 
   it('refuses a folder without runs/ with one sentence and exit code 2', () => {

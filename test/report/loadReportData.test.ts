@@ -3,6 +3,7 @@ import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { loadReportData } from '../../src/report/loadReportData.js';
+import { renderReport } from '../../src/report/renderReport.js';
 import { InputError } from '../../src/errors.js';
 import { writeTestRun } from './writeTestBatch.js';
 
@@ -42,6 +43,24 @@ describe('loadReportData', () => {
       const data = await loadReportData(dir);
       expect(data.runs[0]!.angle?.flag_counts).toEqual({ 'lost:no-blob, glare': 1 });
       expect(Number.isNaN(data.runs[0]!.angle!.angle_deg[1]!)).toBe(true);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
+  });
+
+  it('with a batch\'s run ids, reads only those and names the other folders in the report\'s warnings', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-load-only-'));
+    try {
+      for (const [run, rate] of [['f1', 30], ['r1', -1], ['r-old', -4]] as const) {
+        await writeTestRun(dir, { run, direction: run.startsWith('f') ? 'forward' : 'reverse', setting: 1, rate_deg_s: rate });
+      }
+      const data = await loadReportData(dir, new Set(['f1', 'r1']));
+      expect(data.runs.map((r) => r.record.run)).toEqual(['f1', 'r1']);
+      expect(data.left_out).toEqual(['r-old']);
+      const page = await renderReport(data);
+      expect(page).toContain('The output folder also holds 1 run folder (r-old), not in this batch\'s manifest; left out of this report');
+      expect(page.split('r-old').length - 1).toBe(1); // named once, in the warning: no section, no table row
+      expect((await loadReportData(dir)).left_out).toEqual([]);
     } finally {
       await rm(dir, { recursive: true, force: true });
     }
