@@ -21,6 +21,7 @@ import { batchMeansEffectiveSize } from './batchMeansEffectiveSize.js';
 import { dynamicsWindow } from './checkDynamicsSeries.js';
 import { InputError } from '../errors.js';
 import { DynamicsFitError } from './DynamicsFitError.js';
+import { coastDownNotEligible } from './coastDownEligibility.js';
 
 /** Coast-down parameters: window start ts (s), angle there θs (deg), rate there ω0 (deg/s, signed), Coulomb c (deg/s²), viscous k (1/s). */
 export interface CoastDownParams {
@@ -288,16 +289,10 @@ export function fitCoastDown(t_s: Float64Array, angle_deg: Float64Array, options
   }
   const warnings: string[] = [];
   if (!out.converged) warnings.push(`The coast-down fit did not converge (${out.reason}); treat its estimates with caution.`);
-  let excluded: string | undefined;
   if (params.coulomb_deg_s2 < 0 || params.viscous_per_s < 0) {
     warnings.push('The fitted friction is negative (the rotor seems to gain speed), so the coast-down model does not describe this window.');
   }
-  if (params.coulomb_deg_s2 + params.viscous_per_s * Math.abs(params.initial_rate_deg_s) < 0) excluded = 'the fitted rotor gains speed, which a coast-down cannot do';
-  else if (result.coulomb_deg_s2.ci[1] < 0 || result.viscous_per_s.ci[1] < 0) excluded = 'a friction coefficient is clearly negative, which is not physical';
-  else if (params.coulomb_deg_s2 < 0 && -params.coulomb_deg_s2 > 0.5 * params.viscous_per_s * Math.abs(params.initial_rate_deg_s)) {
-    // With c < 0 the curve settles at the rate −c/k instead of stopping; settling above half the initial rate needs a drive.
-    excluded = 'the fitted curve settles at a steady nonzero rate, which needs a drive, not a coast-down';
-  }
+  const excluded = coastDownNotEligible(params, { coulomb_deg_s2: result.coulomb_deg_s2.ci[1], viscous_per_s: result.viscous_per_s.ci[1] });
   return {
     result,
     candidate: { model: 'spindown', n, k: 4, rss: out.rss, n_eff: batchMeansEffectiveSize(out.residuals), ...(excluded ? { excluded } : {}) },
