@@ -4,6 +4,7 @@ import type { Estimate, FitReport } from '../fit/FitReport.js';
 import { dirname } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
+import { checkFitOutputPaths } from './fitOutputPaths.js';
 
 interface FitCliOptions {
   out: string;
@@ -78,6 +79,7 @@ export function registerFit(program: Command): void {
       const seed = numberOption('--seed', o.seed)!;
       const from = numberOption('--from', o.from);
       const to = numberOption('--to', o.to);
+      await checkFitOutputPaths(anglePath, o.out);
       await ensureWritableFolder(dirname(o.out), 'the folder of --out');
       const table = await readAngleTable(anglePath);
       const result = fitAngleSeries(

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
-import { readFile } from 'node:fs/promises';
-import { dirname } from 'node:path';
+import { readFile, stat } from 'node:fs/promises';
+import { basename, dirname } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 import { anchorRegion } from '../synth/anchorRegion.js';
@@ -200,6 +200,14 @@ function dropUndefined(value: unknown): unknown {
   return out;
 }
 
+/** Refuses an --out that exists but was not written by synth (no spec sidecar beside it): real footage is never written over. */
+async function refuseForeignVideo(videoPath: string, specPath: string): Promise<void> {
+  const exists = (p: string) => stat(p).then(() => true, () => false);
+  if ((await exists(videoPath)) && !(await exists(specPath))) {
+    throw new InputError(`--out ${videoPath} already exists and was not made by revtrace synth (no ${basename(specPath)} beside it); choose another name, so that footage is never written over`);
+  }
+}
+
 /** `revtrace synth --out clip.mp4`: renders synthetic footage with known truth (video, truth.csv, synth.json). */
 export function registerSynth(program: Command): void {
   const collect = (value: string, previous: string[] = []): string[] => [...previous, value];
@@ -236,11 +244,12 @@ export function registerSynth(program: Command): void {
     .option('--drop <slots>', 'leave out these nominal frame slots, comma-separated (e.g. 12,40)')
     .option('--quiet', 'print nothing on success')
     .action(async (o: SynthCliOptions, command: Command) => {
-      const { renderClip } = await import('../synth/renderClip.js');
+      const { renderClip, synthSidecarPaths } = await import('../synth/renderClip.js');
       const g = globalOptions(command);
       const base = o.spec !== undefined ? await readSpecFile(o.spec) : {};
       const spec = resolveSynthSpec(mergeSpec(base, optionsToSpec(o)));
       if (!/\.(mp4|m4v|mov)$/i.test(o.out!)) throw new InputError(`--out "${o.out}" does not end in .mp4; revtrace renders H.264 MP4 video, so give a name such as clip.mp4`);
+      await refuseForeignVideo(o.out!, synthSidecarPaths(o.out!).specPath);
       await ensureWritableFolder(dirname(o.out!), 'the folder of --out');
       const clip = await renderClip(spec, o.out!, { ffmpeg: g.ffmpeg });
       if (o.quiet) return;

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -71,6 +71,27 @@ describe('revtrace fit', () => {
       expect(existsSync(out)).toBe(false);
     });
   }
+
+  it('never writes over the angle table it reads, and refuses a folder as --out, before any work', () => {
+    const own = join(dir, 'own');
+    mkdirSync(own);
+    const table = readFileSync(anglePath, 'utf8');
+    for (const name of ['angle.csv', 'rate.csv']) writeFileSync(join(own, name), table);
+    const cases: [string, RegExp][] = [
+      [join(own, 'angle.csv'), /is the angle table being fitted and would be written over; choose another --out/],
+      [join(own, 'fit.json'), /puts rate\.csv over the angle table being fitted/], // when the table read is own/rate.csv
+      [own, /is a folder; give the file to write, e\.g\. --out .*own\/fit\.json$/],
+    ];
+    for (const [i, [out, message]] of cases.entries()) {
+      const input = i === 1 ? join(own, 'rate.csv') : join(own, 'angle.csv');
+      const r = run(['fit', input, '--out', out]);
+      expect(r.status, out).toBe(2);
+      expect(r.stderr.trim(), out).toMatch(new RegExp(`^revtrace: --out .*${message.source}`));
+      expect(r.stderr.trim().split('\n')).toHaveLength(1);
+    }
+    for (const name of ['angle.csv', 'rate.csv']) expect(readFileSync(join(own, name), 'utf8')).toBe(table);
+    expect(existsSync(join(own, 'fit.json'))).toBe(false);
+  });
 
   it('exits 2 for a table without an angle_deg column', () => {
     const p = join(dir, 'noangle.csv');

@@ -1,7 +1,7 @@
 // The synth command line: what it writes, and one sentence with exit 2 for bad options (run `npm run build` first).
 import { describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtemp, readdir } from 'node:fs/promises';
+import { mkdtemp, readdir, readFile, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -17,6 +17,19 @@ describe('revtrace synth', () => {
     expect(r.status).toBe(0);
     expect(r.stdout).toContain('(5 frames, 160×120)');
     expect((await readdir(dir)).sort()).toEqual(['c.mp4', 'c.synth.json', 'c.truth.csv']);
+  });
+
+  it('renders again over its own clip, but never over a video it did not make', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-cli-synth-own-'));
+    const args = ['--duration', '0.12', '--fps', '25', '--size', '160x120', '--marker', '40', '--quiet'];
+    expect(revtrace(['synth', '--out', 'c.mp4', ...args], dir).status).toBe(0);
+    expect(revtrace(['synth', '--out', 'c.mp4', ...args, '--rate', '30'], dir).status).toBe(0); // its own: the sidecar is there
+    await writeFile(join(dir, 'run07.mp4'), 'real footage stands in here');
+    const r = revtrace(['synth', '--out', 'run07.mp4', ...args], dir);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe('revtrace: --out run07.mp4 already exists and was not made by revtrace synth (no run07.synth.json beside it); choose another name, so that footage is never written over\n');
+    expect(await readFile(join(dir, 'run07.mp4'), 'utf8')).toBe('real footage stands in here');
+    expect((await readdir(dir)).sort()).toEqual(['c.mp4', 'c.synth.json', 'c.truth.csv', 'run07.mp4']);
   });
 
   it('makes the folder of --out when it does not exist yet', async () => {
