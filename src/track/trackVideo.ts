@@ -1,7 +1,7 @@
 import { InputError } from '../errors.js';
 import { SOFTWARE } from '../version.js';
 import { hashFile } from '../video/hashFile.js';
-import { probeVideoHeader, type VideoHeader } from '../video/probeVideo.js';
+import { checkNotCutShort, probeVideoHeader, type VideoHeader } from '../video/probeVideo.js';
 import { readFrames } from '../video/readFrames.js';
 import { frameTiming } from '../video/frameTiming.js';
 import type { AngleSeries } from './AngleSeries.js';
@@ -203,6 +203,8 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     if (store.n === 0) {
       throw new TrackingError(`no frames were decoded from ${path} between ${options.from_s ?? 'the start'} and ${options.to_s ?? 'the end'} s; check --from and --to`, path);
     }
+    // a whole clip read: fewer frames than its index lists means the file was cut short (checked where the index says)
+    if (options.from_s === undefined && options.to_s === undefined) checkNotCutShort(path, store.n, header.declared_frame_count);
     const n = store.n;
     const candidates = !multi ? follower?.paths : null;
     if (candidates) {

@@ -30,6 +30,8 @@ export interface VideoHeader {
   tick_s: number;
   /** Index of the video stream read. */
   stream_index: number;
+  /** Frames the container's index lists for the stream (MP4/MOV sample table), or null when it does not say. */
+  declared_frame_count: number | null;
 }
 
 /** Everything `revtrace probe` reports: header plus timing from the real per-frame presentation times. */
@@ -137,7 +139,18 @@ export async function probeVideoHeader(path: string, options: ProbeVideoOptions 
     duration_s: Number.isFinite(duration) ? duration : NaN,
     tick_s: rational(video.time_base) || 1e-6,
     stream_index: Number(video.index),
+    declared_frame_count: Number(video.nb_frames) > 0 ? Number(video.nb_frames) : null,
   };
+}
+
+/** Frames the index may list beyond those stored without the file being cut short (packets an edit list drops are still stored). */
+const CUT_SHORT_SLACK = 3;
+
+/** InputError when a file holds clearly fewer frames than its index lists: an interrupted copy or recording. */
+export function checkNotCutShort(path: string, frames_found: number, declared_frame_count: number | null): void {
+  if (declared_frame_count !== null && frames_found < declared_frame_count - CUT_SHORT_SLACK) {
+    throw new InputError(`${path} is cut short: its index lists ${declared_frame_count} frames but only ${frames_found} can be read (an interrupted copy or recording); copy or export it again.`);
+  }
 }
 
 /**
@@ -152,14 +165,17 @@ export async function probeFrameTimes(path: string, header: VideoHeader, options
   const text = await ffprobe(tool.path, path, [...select, '-show_entries', 'packet=pts,flags', '-of', 'csv=p=0']);
   const ticks: number[] = [];
   let missing = false;
+  let packets = 0;
   for (const line of text.split('\n')) {
     if (line.trim() === '') continue;
+    packets++;
     const [pts, flags = ''] = line.split(',');
     if (flags.includes('D')) continue;
     const v = Number(pts);
     if (pts === 'N/A' || !Number.isFinite(v)) { missing = true; break; }
     ticks.push(v);
   }
+  checkNotCutShort(path, packets, header.declared_frame_count);
   if (missing) {
     const decoded = await ffprobe(tool.path, path, [...select, '-show_entries', 'frame=best_effort_timestamp_time', '-of', 'csv=p=0']);
     const times = decoded.split('\n').map((l) => l.split(',')[0]!.trim()).filter((l) => l !== '' && l !== 'N/A').map(Number);

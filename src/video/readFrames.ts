@@ -2,7 +2,7 @@ import { InputError } from '../errors.js';
 import { FfmpegError } from './FfmpegError.js';
 import type { Frame } from './Frame.js';
 import { locateFfmpeg } from './locateTools.js';
-import { probeVideoHeader } from './probeVideo.js';
+import { checkNotCutShort, probeVideoHeader } from './probeVideo.js';
 import type { VideoHeader } from './probeVideo.js';
 import { runTool } from './runTool.js';
 
@@ -172,6 +172,10 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
     if (filled !== 0) {
       throw new FfmpegError(`ffmpeg stopped in the middle of frame ${decoded} of ${path}.`, { file: path, exitCode: 0, stderrTail: '' });
     }
+  } catch (err) {
+    // ffmpeg stopping at a "partial file" in a file whose index lists more frames: say what happened to the file, not to ffmpeg
+    if (err instanceof FfmpegError && /partial file/.test(err.stderrTail)) checkNotCutShort(path, decoded, header.declared_frame_count);
+    throw err;
   } finally {
     await run.return(undefined);
   }

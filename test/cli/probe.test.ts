@@ -19,6 +19,11 @@ function probeJson(file: string): Record<string, any> {
   return JSON.parse(r.stdout) as Record<string, any>;
 }
 
+/** Packets of the first video stream as ffprobe lists them (the reference count of frames a cut file still holds). */
+function ffprobePacketCount(file: string): number {
+  return execFileSync(FFPROBE, ['-v', 'quiet', '-select_streams', 'v:0', '-show_entries', 'packet=pts', '-of', 'csv=p=0', file]).toString().split('\n').filter((l) => l.trim() !== '').length;
+}
+
 describe('revtrace probe', () => {
   const dir = tempDir('probe');
   let cfr: string;
@@ -90,6 +95,8 @@ describe('revtrace probe', () => {
       ['an empty file', () => { const f = join(dir, 'empty.mp4'); writeFileSync(f, ''); return f; }, (f) => `${f} is empty (0 bytes); it is not a video.`],
       ['a text file', () => { const f = join(dir, 'notes.mp4'); writeFileSync(f, 'run 3: forward, 12 mm gap\n'.repeat(50)); return f; }, (f) => `${f} is not a video ffprobe can read (Invalid data found when processing input); check that it is a complete video file.`],
       ['a truncated mp4', () => { const f = join(dir, 'cut.mp4'); const bytes = readFileSync(cfr); writeFileSync(f, bytes.subarray(0, Math.floor(statSync(cfr).size / 2))); return f; }, (f) => `${f} has no MP4 index (moov box), so it was probably cut short while being written or copied; copy or export the video again.`],
+      // the index (moov) moved to the front, then the file cut at half: ffprobe still reads the header, and the sample table lists all 50 frames
+      ['a truncated mp4 with its index at the front', () => { const whole = testsrc2Clip(join(dir, 'front.mp4'), { size: '320x240', rate: 25, seconds: 2, extra: ['-movflags', '+faststart'] }); const f = join(dir, 'front-cut.mp4'); writeFileSync(f, readFileSync(whole).subarray(0, Math.floor(statSync(whole).size / 2))); return f; }, (f) => `${f} is cut short: its index lists 50 frames but only ${ffprobePacketCount(f)} can be read (an interrupted copy or recording); copy or export it again.`],
       ['an audio-only file', () => { const f = join(dir, 'tone.m4a'); ffmpeg(['-f', 'lavfi', '-i', 'sine=frequency=440:duration=1', f]); return f; }, (f) => `${f} has no video stream (only audio); give a video file.`],
     ];
     for (const [what, make, message] of cases) {

@@ -1,12 +1,15 @@
 // The track command line: one sentence and exit 2 for each kind of bad option, and nothing written (run `npm run build` first).
 import { beforeAll, describe, expect, it } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtemp, readdir } from 'node:fs/promises';
+import { mkdtemp, readdir, readFile, writeFile } from 'node:fs/promises';
+import { ffmpeg } from '../video/referenceTools.js';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
 const bin = fileURLToPath(new URL('../../bin/revtrace', import.meta.url));
+/** Copies a video's streams into a new file with ffmpeg (no re-encoding), adding `extra` options. */
+const ffmpegCopy = (from: string, to: string, extra: string[]) => ffmpeg(['-i', from, '-c', 'copy', ...extra, to]);
 const revtrace = (args: string[], cwd: string) => spawnSync(process.execPath, [bin, ...args], { encoding: 'utf8', cwd });
 
 describe('revtrace track with bad options', () => {
@@ -45,5 +48,17 @@ describe('revtrace track with bad options', () => {
       expect(r.stderr).toMatch(message);
     }
     expect((await readdir(dir)).sort()).toEqual(['c.mp4', 'c.synth.json', 'c.truth.csv']);
+  });
+
+  it('refuses a clip cut short with its index at the front (all of it decodes, but only part of the frames are there)', async () => {
+    const cut = await mkdtemp(join(tmpdir(), 'revtrace-cli-track-cut-'));
+    expect(revtrace(['synth', '--out', 'whole.mp4', '--duration', '2', '--size', '320x240', '--marker', '60', '--crf', '20', '--quiet'], cut).status).toBe(0);
+    ffmpegCopy(join(cut, 'whole.mp4'), join(cut, 'front.mp4'), ['-movflags', '+faststart']);
+    const bytes = await readFile(join(cut, 'front.mp4'));
+    await writeFile(join(cut, 'cut.mp4'), bytes.subarray(0, Math.floor(bytes.length * 0.4)));
+    const r = revtrace(['track', 'cut.mp4', '--out', 'out', '--center', '160,120'], cut);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toMatch(/^revtrace: cut\.mp4 is cut short: its index lists 60 frames but only \d+ can be read \(an interrupted copy or recording\); copy or export it again\.\n$/);
+    expect(await readdir(cut)).not.toContain('out');
   });
 });
