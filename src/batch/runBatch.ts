@@ -1,5 +1,5 @@
 import { existsSync } from 'node:fs';
-import { readdir } from 'node:fs/promises';
+import { readdir, rm } from 'node:fs/promises';
 import { join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
@@ -132,6 +132,8 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
     if (stray.length > 0) emit({ type: 'stray', runs: stray });
   }
 
+  /** Set when the first run is redone: from then on the old summary.csv and batch.json no longer match runs/. */
+  let staleSummaryDropped: Promise<void> | undefined;
   const records = new Map<string, RunRecord>();
   const failed: { run: string; error: string }[] = [];
   const unfinished: string[] = [];
@@ -170,6 +172,7 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
       }
     }
     if (signal.aborted) return;
+    await (staleSummaryDropped ??= dropStaleSummary(outDir));
     await resetRunFolder(runDir);
     if (!record) {
       emit({ type: 'start', run: r.run, row: r.row });
@@ -237,4 +240,13 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
     interrupted,
     summary_written: summaryWritten,
   };
+}
+
+/**
+ * Removes summary.csv and batch.json before the first run folder is reset, so that an interrupted batch never
+ * leaves a summary listing as ok a run whose files are gone (the next complete batch, or revtrace report, writes them again).
+ */
+async function dropStaleSummary(outDir: string): Promise<void> {
+  await rm(join(outDir, 'summary.csv'), { force: true });
+  await rm(join(outDir, 'batch.json'), { force: true });
 }

@@ -42,6 +42,15 @@ export function registerBatch(program: Command): void {
         if (interrupts > 1) process.exit(130);
         controller.abort(new Error('interrupted'));
       };
+      // the reader of our output went away (`revtrace batch … --json | head -1`): stop as on Ctrl-C, without a stack trace
+      let outputClosed = false;
+      const onOutputError = (err: NodeJS.ErrnoException) => {
+        if (err.code !== 'EPIPE') throw err;
+        outputClosed = true;
+        controller.abort(new Error('the output was closed'));
+      };
+      process.stdout.on('error', onOutputError);
+      process.stderr.on('error', onOutputError);
       process.on('SIGINT', onSignal);
       process.on('SIGTERM', onSignal);
       let outcome;
@@ -53,6 +62,9 @@ export function registerBatch(program: Command): void {
         display.stop();
       }
       if (outcome.interrupted) {
+        if (outputClosed && !process.stderr.destroyed) {
+          process.stderr.write('revtrace: the output pipe was closed, so the batch stopped; finished runs are kept, run the same command again to finish the rest\n');
+        }
         process.exitCode = 130;
         return;
       }

@@ -182,6 +182,22 @@ describe('runBatch with a stand-in processor', () => {
     expect((await readSummary(out)).length).toBe(6);
   });
 
+  it('an interrupted redo leaves no summary that lists as ok a run whose files it has removed; a cached rerun keeps it', async () => {
+    const { manifest, out } = await day(SIX);
+    await runBatch(manifest, { out, processor: fake() });
+    await runBatch(manifest, { out, processor: fake() }); // everything cached: the summary is rewritten, not dropped
+    expect((await readdir(out)).sort()).toEqual(['batch.json', 'runs', 'summary.csv']);
+    const controller = new AbortController();
+    const o = await runBatch(manifest, {
+      out, jobs: 1, force: true, processor: fake({ delayMs: 40 }), signal: controller.signal,
+      onEvent: (e) => { if (e.type === 'start') controller.abort(new Error('stop')); },
+    });
+    expect(o.interrupted).toBe(true);
+    expect(await readdir(out)).toEqual(['runs']);
+    await runBatch(manifest, { out, processor: fake() });
+    expect((await readSummary(out)).map((r) => r.status)).toEqual(Array(6).fill('ok'));
+  });
+
   it('splits a manifest into shards by run id, and merged shards equal one unsharded batch', async () => {
     const { manifest, out } = await day(SIX);
     const whole = join(out, '..', 'whole');

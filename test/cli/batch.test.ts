@@ -1,6 +1,6 @@
 // The batch command line: exit codes and messages for bad input (run `npm run build` first).
 import { describe, expect, it } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { mkdir, mkdtemp, readdir, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -46,5 +46,22 @@ describe('revtrace batch', () => {
     const r = revtrace(['batch', 'nope.csv'], dir);
     expect(r.status).toBe(2);
     expect(r.stderr).toBe('revtrace: cannot read the manifest nope.csv; check the path\n');
+  });
+
+  it('stops like Ctrl-C, with one line and exit 130, when the reader of its --json output goes away', async () => {
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-cli-batch-pipe-'));
+    for (const run of ['a', 'b']) {
+      expect(revtrace(['synth', '--out', `clips/${run}.mp4`, '--duration', '3', '--size', '320x240', '--marker', '60', '--quiet'], dir).status).toBe(0);
+    }
+    await writeFile(join(dir, 'day.csv'), 'video,run,direction,center\nclips/a.mp4,a,forward,"160,120"\nclips/b.mp4,b,reverse,"160,120"\n');
+    const child = spawn(process.execPath, [bin, 'batch', 'day.csv', '--json', '--jobs', '1'], { cwd: dir, stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderr = '';
+    child.stderr.on('data', (c: Buffer) => (stderr += c.toString()));
+    child.stdout.once('data', () => child.stdout.destroy()); // as `| head -1` does after the first line
+    const code = await new Promise<number | null>((resolve) => child.on('exit', (c) => resolve(c)));
+    expect(code).toBe(130);
+    expect(stderr).toBe('revtrace: the output pipe was closed, so the batch stopped; finished runs are kept, run the same command again to finish the rest\n');
+    const again = revtrace(['batch', 'day.csv', '--quiet'], dir);
+    expect(again.status, again.stderr).toBe(0);
   });
 });
