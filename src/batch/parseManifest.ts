@@ -187,6 +187,11 @@ export async function parseManifest(manifestPath: string, options: ParseManifest
       }
     }
     if (problems.length !== before) continue;
+    const twin = runs.find((earlier) => earlier.video_abs === videoAbs && JSON.stringify(earlier.settings) === JSON.stringify(settings));
+    if (twin) {
+      at('video', `the video ${video} is also run on line ${twin.line} with the same settings, so one clip would count as two replicates; remove one row, or give each its own window (from, to)`);
+      continue;
+    }
     runs.push({
       row: r,
       line,

@@ -95,6 +95,16 @@ describe('parseManifest', () => {
     ]);
   });
 
+  it('refuses one clip listed twice with the same settings (it would be pooled as two replicates), but not two windows of one clip', async () => {
+    const problems = await problemsOf('video,run,direction\nclips/a.mp4,F1,forward\nclips/b.mp4,F2,forward\nclips/a.mp4,F3,forward\n');
+    expect(problems).toEqual([
+      'day.csv, line 4, column 1 "video": the video clips/a.mp4 is also run on line 2 with the same settings, so one clip would count as two replicates; remove one row, or give each its own window (from, to)',
+    ]);
+    const dir = await folder();
+    await writeFile(join(dir, 'day.csv'), 'video,run,direction,from,to\nclips/a.mp4,up,forward,0,4\nclips/a.mp4,steady,forward,4,\n');
+    expect((await parseManifest(join(dir, 'day.csv'))).runs.map((r) => r.run)).toEqual(['up', 'steady']);
+  });
+
   it('names a missing required column and an unknown column in the header', async () => {
     const problems = await problemsOf('video,run,diretion\nclips/a.mp4,fwd-1,forward\n');
     expect(problems).toEqual([
