@@ -17,7 +17,7 @@ const RADIUS_BAND = 0.25;
 export type PlaceReading = (x_px: number, y_px: number) => { x_px: number; y_px: number; sx_px: number; sy_px: number };
 
 /**
- * Follows every spot of the first frame that has any (the MOST_CANDIDATES biggest), each with its own spot
+ * Follows every spot of the first frame that has any (at most MOST_CANDIDATES: firstCandidates), each with its own spot
  * follower started on it, because at that frame there is no motion yet to tell the marker from a passing
  * particle or reflection. The candidates' tracks are the markers of a MarkerPathStore (frames before the
  * first spot are `lost:no-blob`). After the pass, `pickMarkerTrack` keeps the candidate whose detections move
@@ -27,16 +27,23 @@ export function createMarkerHypotheses(options: { region: Window; centre?: { x_p
   const followers: SpotFollower[] = [];
   let paths: MarkerPathStore | null = null;
   let frames = 0;
+  let unfollowed = 0;
   return {
     /** The candidates' tracks, or null while no frame has shown a spot. */
     get paths(): MarkerPathStore | null {
       return paths;
     },
+    /** Spots of the first frame with spots that were not followed (beyond MOST_CANDIDATES). */
+    get unfollowed(): number {
+      return unfollowed;
+    },
     /** Feeds one frame's signal image (width px per row) at t_s to every candidate. */
     update(signal: Uint8Array, width: number, t_s: number, place: PlaceReading): void {
       if (!paths) {
-        const spots = findSpots(signal, width, options.region).spots.slice(0, MOST_CANDIDATES);
+        const found = findSpots(signal, width, options.region).spots;
+        const spots = firstCandidates(found, options.centre ?? null);
         if (spots.length > 0) {
+          unfollowed = found.length - spots.length;
           for (const s of spots) followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px }, centre: options.centre }));
           paths = new MarkerPathStore(followers.length);
           for (let i = 0; i < frames; i++) paths.pushLost('lost:no-blob');
@@ -54,6 +61,17 @@ export function createMarkerHypotheses(options: { region: Window; centre?: { x_p
       paths?.pushLost(flag);
     },
   };
+}
+
+/**
+ * The first frame's spots to follow, at most MOST_CANDIDATES: about a given centre the nearest ones that lie
+ * at least MIN_PATH_RADIUS_PX from it (the marker sits on the hub; a still pattern in a corner of the frame,
+ * often bigger than a marker, would otherwise crowd it out), else the biggest.
+ */
+export function firstCandidates<S extends { x_px: number; y_px: number }>(spots: S[], centre: { x_px: number; y_px: number } | null): S[] {
+  if (!centre) return spots.slice(0, MOST_CANDIDATES);
+  const distance = (s: S) => Math.hypot(s.x_px - centre.x_px, s.y_px - centre.y_px);
+  return spots.filter((s) => distance(s) >= MIN_PATH_RADIUS_PX).sort((a, b) => distance(a) - distance(b)).slice(0, MOST_CANDIDATES);
 }
 
 /**

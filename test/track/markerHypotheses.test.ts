@@ -1,6 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { findSpots } from '../../src/track/findSpots.js';
-import { circularPathScore } from '../../src/track/markerHypotheses.js';
+import { circularPathScore, firstCandidates } from '../../src/track/markerHypotheses.js';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { renderClip } from '../../src/synth/renderClip.js';
+import { trackVideo } from '../../src/track/trackVideo.js';
 import { offCircle, rotorPlaneRadius } from '../../src/track/pathCheck.js';
 
 // Truth: exact geometry of points we place ourselves (a circle, an ellipse, a straight line), and a drawn
@@ -51,6 +56,41 @@ describe('circularPathScore', () => {
     const marker = arc(160, 120, 81, 0, 5, 90);
     for (let i = 0; i < 90; i += 3) marker.x[i] = NaN;
     expect(circularPathScore(marker.x, marker.y, { x_px: 160, y_px: 120 })).toBe(60);
+  });
+});
+
+describe('firstCandidates', () => {
+  // eight squares of a still pattern in a corner, each bigger than the marker, and the marker on the hub
+  const pattern = Array.from({ length: 8 }, (_, i) => ({ x_px: 10 + 11 * (i % 4), y_px: 10 + 11 * Math.floor(i / 4), area_px: 121 }));
+  const marker = { x_px: 442, y_px: 180, area_px: 50 };
+  const biggestFirst = [...pattern, marker];
+
+  it('about a given centre takes the nearest spots, so a bigger still pattern far off cannot crowd out the marker', () => {
+    const chosen = firstCandidates(biggestFirst, { x_px: 320, y_px: 180 });
+    expect(chosen).toHaveLength(6);
+    expect(chosen[0]).toBe(marker);
+  });
+
+  it('leaves out a spot on the centre itself (it cannot go round), and without a centre takes the six biggest', () => {
+    const hubCap = { x_px: 320.5, y_px: 180, area_px: 200 };
+    expect(firstCandidates([hubCap, marker], { x_px: 320, y_px: 180 })).toEqual([marker]);
+    expect(firstCandidates(biggestFirst, null)).toEqual(pattern.slice(0, 6));
+  });
+
+  it('lets trackVideo follow the marker of a whole 640×360 frame with the still checkerboard in its corner, given --center', async () => {
+    // our renderer's default scene (fixed 4×4 checkerboard top-left) turning at −1.5 deg/s for 3 s; truth from the renderer
+    const dir = await mkdtemp(join(tmpdir(), 'revtrace-firstcand-'));
+    try {
+      const clip = await renderClip({ seed: 1, width_px: 640, height_px: 360, fps: 30, duration_s: 3, profile: { kind: 'steady', rate_deg_s: -1.5 }, realism: { noise_sigma: 2, crf: 23 } }, join(dir, 'check.mp4'));
+      const r = await trackVideo(clip.videoPath, { centre: { x: 320, y: 180 } });
+      expect(r.summary.frames.lost).toBe(0);
+      const a = r.series.angle_deg;
+      const turned = a[a.length - 1]! - a[0]!;
+      const truth = clip.truth.angle_deg[clip.truth.angle_deg.length - 1]! - clip.truth.angle_deg[0]!;
+      expect(Math.abs(turned - truth)).toBeLessThan(0.3);
+    } finally {
+      await rm(dir, { recursive: true, force: true });
+    }
   });
 });
 
