@@ -14,3 +14,10 @@ export class InputError extends RevtraceError {
     super(message, 2, options);
   }
 }
+
+/** The person stopped the command (Ctrl-C, SIGTERM): the CLI exits 130, as shells do for SIGINT. */
+export class InterruptedError extends RevtraceError {
+  constructor(message: string) {
+    super(message, 130);
+  }
+}

@@ -16,10 +16,20 @@ export function registerDemo(program: Command): void {
       const jobs = parseJobs(o.jobs);
       const started = Date.now();
       const display = createBatchDisplay(process.stderr.isTTY ? 'bars' : 'lines', process.stderr);
+      // the demo keeps what it finished (clips, committed runs) and tidies the rest on its next start: stop at once
+      const onSignal = () => {
+        display.stop();
+        process.stderr.write('revtrace: interrupted; run revtrace demo again to pick up where it stopped\n');
+        process.exit(130);
+      };
+      process.once('SIGINT', onSignal);
+      process.once('SIGTERM', onSignal);
       let outcome;
       try {
         outcome = await runDemo({ out: o.out, quick: o.quick, jobs, tools: { ffmpeg: g.ffmpeg, ffprobe: g.ffprobe }, onLog: (line) => display.note(line, {}), onEvent: (e) => display.onEvent(e) });
       } finally {
+        process.off('SIGINT', onSignal);
+        process.off('SIGTERM', onSignal);
         display.stop();
       }
       const elapsed_s = (Date.now() - started) / 1000;

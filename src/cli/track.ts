@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
-import { InputError } from '../errors.js';
+import { InputError, InterruptedError } from '../errors.js';
 import { toRegion } from '../track/TrackOptions.js';
 import { probeVideoHeader } from '../video/probeVideo.js';
 import { globalOptions } from './globalOptions.js';
@@ -66,8 +66,9 @@ export function registerTrack(program: Command): void {
       }
       await ensureWritableFolder(o.out, '--out');
       const controller = new AbortController();
-      const onSignal = () => controller.abort(new Error('interrupted'));
+      const onSignal = () => controller.abort(new InterruptedError(`interrupted; nothing was written to ${o.out}`));
       process.on('SIGINT', onSignal);
+      process.on('SIGTERM', onSignal);
       let lastPrint = Date.now();
       try {
         const result = await trackVideo(video, {
@@ -109,6 +110,7 @@ export function registerTrack(program: Command): void {
         }
       } finally {
         process.off('SIGINT', onSignal);
+        process.off('SIGTERM', onSignal);
       }
     });
 }

@@ -3,6 +3,7 @@ import { readFile, rm } from 'node:fs/promises';
 import { createHash } from 'node:crypto';
 import { join } from 'node:path';
 import { renderClip } from '../synth/renderClip.js';
+import { cleanStaleTemps } from '../batch/cleanStaleTemps.js';
 import { resolveSynthSpec } from '../synth/SynthSpec.js';
 import { writeFileAtomic } from '../writeFileAtomic.js';
 import type { DemoRun } from './demoDay.js';
@@ -30,6 +31,7 @@ export async function prepareDemoClips(runs: DemoRun[], clipsDir: string, option
   } catch {
     index = {};
   }
+  await cleanStaleTemps([clipsDir]); // left by an interrupted demo
   let rendered = 0;
   let reused = 0;
   for (const run of runs) {
