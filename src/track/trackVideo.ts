@@ -37,6 +37,8 @@ export interface TrackResult {
 
 /** Free arc (deg) the marker must sweep before the centre and view are fitted from its path. */
 const MIN_ARC_FREE_DEG = 270;
+/** Fewest frames with the marker found that a track is made from. */
+const MIN_FRAMES = 5;
 /** Arc (deg) needed to fit the view about a given centre. */
 const MIN_ARC_CENTRED_DEG = 150;
 /** Share of kept marker detections off the marker's circle above which the track is reported as doubtful. */
@@ -203,6 +205,10 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     if (store.n === 0) {
       throw new TrackingError(`no frames were decoded from ${path} between ${options.from_s ?? 'the start'} and ${options.to_s ?? 'the end'} s; check --from and --to`, path);
     }
+    if (store.n < MIN_FRAMES) {
+      const window = options.from_s !== undefined || options.to_s !== undefined ? ' in the window --from/--to' : '';
+      throw new InputError(`${path} has only ${store.n} frame${store.n === 1 ? '' : 's'}${window}; tracking needs at least ${MIN_FRAMES}, so give a longer clip or window`);
+    }
     // a whole clip read: fewer frames than its index lists means the file was cut short (checked where the index says)
     if (options.from_s === undefined && options.to_s === undefined) checkNotCutShort(path, store.n, header.declared_frame_count);
     const n = store.n;
@@ -252,7 +258,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     } else {
       const good: number[] = [];
       for (let i = 0; i < n; i++) if (flag[i] === '') good.push(i);
-      if (good.length < 5) {
+      if (good.length < MIN_FRAMES) {
         if (mode.kind === 'color' && colourSeen === 0) {
           throw new InputError(`no pixel in ${regionWords} comes within ΔE ${tolerance} of --marker color:${mode.hex.slice(1)}; check the colour (pick it from a frame) or the region`);
         }
@@ -356,7 +362,11 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
         lostByReason[flag[i]] = (lostByReason[flag[i]] ?? 0) + 1;
       }
     }
-    if (lost > 0.2 * n) warnings.push(`The marker was lost in ${((100 * lost) / n).toFixed(0)}% of frames; check the region, the marker kind and the preview.`);
+    if (lost > 0.2 * n) {
+      const skipped = follower?.unfollowed ?? 0;
+      const why = skipped > 0 ? ` The first frame showed ${skipped} more spot${skipped === 1 ? '' : 's'} than were followed (the ${centre ? 'nearest to --center' : 'biggest'}), so the marker may not have been among them: give --roi around the marker's circle.` : '';
+      warnings.push(`The marker was lost in ${((100 * lost) / n).toFixed(0)}% of frames; check the region, the marker kind and the preview.${why}`);
+    }
 
     const series: AngleSeries = {
       frame: Int32Array.from(store.frame.subarray(0, n)),

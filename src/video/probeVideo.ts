@@ -114,6 +114,10 @@ export async function probeVideoHeader(path: string, options: ProbeVideoOptions 
     const kinds = [...new Set(streams.map((s) => String(s.codec_type)))];
     throw new InputError(`${path} has no video stream${kinds.length > 0 ? ` (only ${kinds.join(', ')})` : ''}; give a video file.`);
   }
+  const format_name = String(json.format?.format_name ?? '');
+  if (/(^|,)image2$|_pipe$/.test(format_name)) {
+    throw new InputError(`${path} is a single ${String(video.codec_name ?? 'image').toUpperCase()} image, not a video; give the video file of the run.`);
+  }
   const coded_width = Number(video.width);
   const coded_height = Number(video.height);
   if (!(coded_width > 0 && coded_height > 0)) throw new InputError(`${path} has a video stream without a frame size; it may be damaged.`);

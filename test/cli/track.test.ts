@@ -1,8 +1,8 @@
 // The track command line: one sentence and exit 2 for each kind of bad option, and nothing written (run `npm run build` first).
 import { beforeAll, describe, expect, it } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { execFileSync, spawn, spawnSync } from 'node:child_process';
 import { mkdtemp, readdir, readFile, writeFile } from 'node:fs/promises';
-import { ffmpeg } from '../video/referenceTools.js';
+import { ffmpeg, testsrc2Clip } from '../video/referenceTools.js';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -60,5 +60,29 @@ describe('revtrace track with bad options', () => {
     expect(r.status).toBe(2);
     expect(r.stderr).toMatch(/^revtrace: cut\.mp4 is cut short: its index lists 60 frames but only \d+ can be read \(an interrupted copy or recording\); copy or export it again\.\n$/);
     expect(await readdir(cut)).not.toContain('out');
+  });
+
+  it('says a clip is too short, not that the marker is missing, when it has fewer than 5 frames', async () => {
+    expect(revtrace(['synth', '--out', 'three.mp4', '--duration', '0.1', '--fps', '30', '--size', '320x240', '--marker', '60', '--quiet'], dir).status).toBe(0);
+    const r = revtrace(['track', 'three.mp4', '--out', 'out3', '--center', '160,120'], dir);
+    expect(r.status).toBe(2);
+    expect(r.stderr).toBe('revtrace: three.mp4 has only 3 frames; tracking needs at least 5, so give a longer clip or window\n');
+    expect(await readdir(dir)).not.toContain('out3');
+  });
+
+  it('stops on Ctrl-C with one line and exit 130, writing nothing', async () => {
+    const stop = await mkdtemp(join(tmpdir(), 'revtrace-cli-track-stop-'));
+    testsrc2Clip(join(stop, 'long.mp4'), { size: '640x360', rate: 30, seconds: 60 }); // ffmpeg's own test pattern, long enough to be mid-decode
+    const child = spawn(process.execPath, [bin, 'track', 'long.mp4', '--out', 'out', '--center', '320,180'], { cwd: stop, stdio: ['ignore', 'pipe', 'pipe'] });
+    let stderr = '';
+    child.stderr.on('data', (c: Buffer) => (stderr += c.toString()));
+    const exited = new Promise<number | null>((resolve) => child.on('exit', (c) => resolve(c)));
+    // wait until revtrace's decoding ffmpeg runs (its Ctrl-C handler is in place by then), then interrupt
+    const decoding = () => { try { return execFileSync('ps', ['-o', 'comm=', '--ppid', String(child.pid)]).toString().includes('ffmpeg'); } catch { return false; } };
+    while (!decoding() && child.exitCode === null) await new Promise((r) => setTimeout(r, 50));
+    child.kill('SIGINT');
+    expect(await exited).toBe(130);
+    expect(stderr).toBe('revtrace: interrupted; nothing was written to out\n');
+    expect((await readdir(stop)).sort()).toEqual(['long.mp4']);
   });
 });
