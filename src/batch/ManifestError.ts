@@ -29,7 +29,9 @@ export class ManifestError extends InputError {
   constructor(file: string, problems: ManifestProblem[]) {
     const n = problems.length;
     const lines = problems.map((p) => `  ${formatManifestProblem(file, p)}`);
-    super(`the manifest ${file} has ${n} problem${n === 1 ? '' : 's'}; fix ${n === 1 ? 'it' : 'them'} and run again (nothing was run):\n${lines.join('\n')}`);
+    const files = [...new Set(problems.map((p) => p.file ?? file))];
+    const where = files.length === 1 ? `the ${files[0] === file ? 'manifest' : 'defaults file'} ${files[0]} has` : `the manifest ${file} and its defaults file have`;
+    super(`${where} ${n} problem${n === 1 ? '' : 's'}; fix ${n === 1 ? 'it' : 'them'} and run again (nothing was run):\n${lines.join('\n')}`);
     this.file = file;
     this.problems = problems;
   }

@@ -41,7 +41,7 @@ async function readDefaults(path: string, problems: ManifestProblem[]): Promise<
   const problem = (key: string | null, message: string) => problems.push({ file, line: null, column: null, column_name: key, message });
   let data: unknown;
   try {
-    data = JSON.parse(await readFile(path, 'utf8'));
+    data = JSON.parse((await readFile(path, 'utf8')).replace(/^\uFEFF/, '')); // a byte-order mark, as some editors save
   } catch (err) {
     problem(null, `cannot be read as JSON (${(err as Error).message}); write an object such as {"marker": "bright", "model": "steady"}`);
     return { settings, shared };
@@ -112,8 +112,19 @@ export async function parseManifest(manifestPath: string, options: ParseManifest
   // Header
   const headerLine = records[0]!.info.lines;
   const header = records[0]!.record.map((h) => h.trim().toLowerCase());
+  const separator = header.length === 1 ? [';', '\t'].find((c) => header[0]!.includes(c)) : undefined;
+  if (separator) {
+    const words = separator === ';' ? 'semicolons (as spreadsheets set to a language with decimal commas save CSV)' : 'tabs';
+    throw new ManifestError(file, [{ line: headerLine, column: null, column_name: null, message: `separates its columns with ${words}; save it with commas, e.g. video,run,direction` }]);
+  }
   const index = new Map<string, number>();
+  /** Columns without a name (a spreadsheet's trailing empty columns): ignored while their cells are empty. */
+  const unnamed: number[] = [];
   header.forEach((raw, i) => {
+    if (raw === '') {
+      unnamed.push(i);
+      return;
+    }
     const name = COLUMN_ALIASES[raw] ?? raw;
     const known = (REQUIRED as readonly string[]).includes(name) || (DESCRIPTIVE as readonly string[]).includes(name) || name in SETTING_COLUMNS;
     if (!known) {
@@ -145,6 +156,10 @@ export async function parseManifest(manifestPath: string, options: ParseManifest
     const cell = (name: string) => (index.has(name) ? record[index.get(name)!]!.trim() : '');
     const at = (name: string, message: string) => problems.push({ line, column: index.get(name)! + 1, column_name: name, message });
     const before = problems.length;
+    for (const i of unnamed) {
+      const text = record[i]!.trim();
+      if (text !== '') problems.push({ line, column: i + 1, column_name: null, message: `holds "${text}" but the column has no name in the header; name the column or delete the value` });
+    }
 
     const run = cell('run');
     const idProblem = runIdProblem(run);
@@ -155,7 +170,10 @@ export async function parseManifest(manifestPath: string, options: ParseManifest
     const video = cell('video');
     const videoAbs = isAbsolute(video) ? video : resolve(base, video);
     if (video === '') at('video', 'the video path is empty; give the clip file, relative to the manifest');
-    else if (!(await isFile(videoAbs))) at('video', `the video file ${video} does not exist (looked for ${videoAbs}); check the path, relative to the manifest`);
+    else if (!(await isFile(videoAbs))) {
+      const hint = video.includes('\\') ? ' (write / between folders, not \\)' : '';
+      at('video', `the video file ${video} does not exist (looked for ${videoAbs}); check the path, relative to the manifest${hint}`);
+    }
 
     const directionText = cell('direction').toLowerCase();
     if (directionText !== 'forward' && directionText !== 'reverse') at('direction', `the direction "${cell('direction')}" is unknown; write forward or reverse`);

@@ -105,6 +105,35 @@ describe('parseManifest', () => {
     expect((await parseManifest(join(dir, 'day.csv'))).runs.map((r) => r.run)).toEqual(['up', 'steady']);
   });
 
+  it('reads a defaults file saved with a byte-order mark, and names the defaults file when the problem is there', async () => {
+    const dir = await folder();
+    await writeFile(join(dir, 'day.csv'), 'video,run,direction\nclips/a.mp4,a,forward\n');
+    await writeFile(join(dir, 'day.defaults.json'), '\uFEFF{"model": "steady"}\r\n');
+    expect((await parseManifest(join(dir, 'day.csv'))).runs[0]!.settings.fit.model).toBe('steady');
+    await writeFile(join(dir, 'day.defaults.json'), '{"model": "sideways"}');
+    const err = await parseManifest(join(dir, 'day.csv')).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(ManifestError);
+    expect((err as Error).message.split('\n')[0]).toBe('the defaults file day.defaults.json has 1 problem; fix it and run again (nothing was run):');
+  });
+
+  it('names a semicolon-separated file as such, and ignores the empty columns a spreadsheet adds unless they hold values', async () => {
+    expect(await problemsOf('video;run;direction\nclips/a.mp4;a;forward\n')).toEqual([
+      'day.csv, line 1: separates its columns with semicolons (as spreadsheets set to a language with decimal commas save CSV); save it with commas, e.g. video,run,direction',
+    ]);
+    expect(await problemsOf('Video ,Run , Direction ,,,\nclips/a.mp4,a,forward,,,\nclips/b.mp4,b,reverse,,x,\n')).toEqual([
+      'day.csv, line 3, column 5: holds "x" but the column has no name in the header; name the column or delete the value',
+    ]);
+    const dir = await folder();
+    await writeFile(join(dir, 'day.csv'), 'Video ,Run , Direction ,,,\r\nclips/a.mp4,a,forward,,,\r\n');
+    expect((await parseManifest(join(dir, 'day.csv'))).runs.map((r) => r.run)).toEqual(['a']);
+  });
+
+  it('says to write / when a missing video\'s path has Windows backslashes', async () => {
+    expect(await problemsOf('video,run,direction\nclips\\a.mp4,a,forward\n')).toEqual([
+      expect.stringMatching(/^day\.csv, line 2, column 1 "video": the video file clips\\a\.mp4 does not exist \(looked for .*\); check the path, relative to the manifest \(write \/ between folders, not \\\)$/),
+    ]);
+  });
+
   it('names a missing required column and an unknown column in the header', async () => {
     const problems = await problemsOf('video,run,diretion\nclips/a.mp4,fwd-1,forward\n');
     expect(problems).toEqual([
