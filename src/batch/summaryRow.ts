@@ -31,6 +31,8 @@ export function headlineRate(r: RunRecord): { kind: string; deg_s: Estimate; rpm
 export function summaryRow(r: RunRecord): SummaryRow {
   const rate = headlineRate(r);
   const f = r.fit;
+  const spinup = f?.model === 'spinup' ? f.spinup : undefined;
+  const spindown = f?.model === 'spindown' ? f.spindown : undefined;
   return {
     run: r.run,
     direction: r.direction,
@@ -48,13 +50,14 @@ export function summaryRow(r: RunRecord): SummaryRow {
     rate_lo_rpm: formatNumber(rate?.rpm.ci[0]),
     rate_hi_rpm: formatNumber(rate?.rpm.ci[1]),
     level: formatNumber(rate?.deg_s.level),
-    zero_p_value: formatNumber(f?.steady?.zero_test.p_value),
-    spinup_onset_s: formatNumber(f?.spinup?.onset_s.value),
-    spinup_tau_s: formatNumber(f?.spinup?.tau_s.value),
-    spinup_tau_se_s: formatNumber(f?.spinup?.tau_s.se),
-    spindown_coulomb_deg_s2: formatNumber(f?.spindown?.coulomb_deg_s2.value),
-    spindown_viscous_per_s: formatNumber(f?.spindown?.viscous_per_s.value),
-    spindown_stop_s: formatNumber(f?.spindown?.stop_s),
+    // each model's columns only for the chosen model: --model auto keeps the others' fits in fit.json, not here
+    zero_p_value: formatNumber(f?.model === 'steady' ? f.steady?.zero_test.p_value : undefined),
+    spinup_onset_s: formatNumber(spinup?.onset_s.value),
+    spinup_tau_s: formatNumber(spinup?.tau_s.value),
+    spinup_tau_se_s: formatNumber(spinup?.tau_s.se),
+    spindown_coulomb_deg_s2: formatNumber(spindown?.coulomb_deg_s2.value),
+    spindown_viscous_per_s: formatNumber(spindown?.viscous_per_s.value),
+    spindown_stop_s: formatNumber(spindown?.stop_s),
     lost_share: formatNumber(r.lost_share),
     warnings: (r.warnings ?? []).join('; '),
     error: r.error ?? '',
