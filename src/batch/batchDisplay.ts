@@ -1,6 +1,7 @@
 import cliProgress from 'cli-progress';
 import type { BatchEvent } from './BatchEvent.js';
 import { leftOutWords } from './leftOutWords.js';
+import { decimalsToShow } from '../decimalsToShow.js';
 
 /** How a batch shows what it does: live bars on a terminal, plain lines, only problems, or JSON lines. */
 export type DisplayMode = 'bars' | 'lines' | 'quiet' | 'json';
@@ -36,7 +37,9 @@ export function describeEvent(e: BatchEvent): string | null {
     case 'start': return `${e.run}: started`;
     case 'progress': return null;
     case 'done': {
-      const rate = e.rate_deg_s === null ? '' : `: ${e.model}, ${fmt(e.rate_deg_s)} deg/s (${fmt(e.lo_deg_s)} to ${fmt(e.hi_deg_s)})`;
+      const d = decimalsToShow(e.lo_deg_s !== null && e.hi_deg_s !== null ? Math.abs(e.hi_deg_s - e.lo_deg_s) / 2 : NaN, 12, 3);
+      const fixed = (x: number | null) => (x === null || !Number.isFinite(x) ? '?' : x.toFixed(d));
+      const rate = e.rate_deg_s === null ? '' : `: ${e.model}, ${fixed(e.rate_deg_s)} deg/s (${fixed(e.lo_deg_s)} to ${fixed(e.hi_deg_s)})`;
       return `${e.run}: done in ${seconds(e.elapsed_s)}${rate}`;
     }
     case 'failed': return `${e.run}: FAILED: ${e.error}`;

@@ -5,6 +5,8 @@ import { dirname } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 import { checkFitOutputPaths } from './fitOutputPaths.js';
+import { decimalsToShow } from '../decimalsToShow.js';
+import { formatP } from '../report/formatQuantity.js';
 
 interface FitCliOptions {
   out: string;
@@ -27,9 +29,15 @@ function numberOption(name: string, text: string | undefined): number | undefine
 /** An estimate with its interval, to as many decimals as the interval's half-width needs for two significant digits. */
 function show(e: Estimate, unit: string): string {
   const half = Math.abs(e.ci[1] - e.ci[0]) / 2;
-  const decimals = half > 0 && Number.isFinite(half) ? Math.min(12, Math.max(0, 1 - Math.floor(Math.log10(half)))) : 4;
+  const decimals = decimalsToShow(half, 12, 4);
   const p = (v: number): string => v.toFixed(decimals);
   return `${p(e.value)} ${unit} (${Math.round(e.level * 100)}% CI ${p(e.ci[0])} to ${p(e.ci[1])})`;
+}
+
+/** "p = 0.034" or "p < 0.001", the same way on every line (and as the report shows it). */
+function pText(p: number): string {
+  const shown = formatP(p);
+  return shown.startsWith('<') ? `p ${shown}` : `p = ${shown}`;
 }
 
 /** A few lines for a person: the chosen model's headline numbers and any warnings. */
@@ -38,13 +46,13 @@ export function fitSummaryText(report: FitReport, outPath: string): string {
   const s = report.steady;
   if (s && report.model === 'steady') {
     lines.push(`rate ${show(s.rate_deg_s, 'deg/s')} = ${show(s.rate_rpm, 'rpm')}`);
-    lines.push(`differs from zero: p = ${s.zero_test.p_value.toPrecision(3)}; smallest detectable rate ${s.min_detectable_deg_s.toPrecision(3)} deg/s`);
+    lines.push(`differs from zero: ${pText(s.zero_test.p_value)}; smallest detectable rate ${s.min_detectable_deg_s.toPrecision(3)} deg/s`);
     const w = s.wander_allowance;
     if (w && w.hidden_walk_bound_deg_per_sqrt_s !== null) {
-      lines.push(`allowing for rate wander up to ${w.hidden_walk_bound_deg_per_sqrt_s.toPrecision(2)} deg/√s (too small to detect here): ${show(w.rate_deg_s, 'deg/s')}, differs from zero: p = ${w.zero_test.p_value.toPrecision(3)}`);
+      lines.push(`allowing for rate wander up to ${w.hidden_walk_bound_deg_per_sqrt_s.toPrecision(2)} deg/√s (too small to detect here): ${show(w.rate_deg_s, 'deg/s')}, differs from zero: ${pText(w.zero_test.p_value)}`);
     }
     if (s.zero_test.margin_deg_s !== undefined) {
-      lines.push(`within ±${s.zero_test.margin_deg_s} deg/s of zero: ${s.zero_test.equivalent_to_zero ? 'yes' : 'not shown'} (TOST p = ${s.zero_test.equivalence_p_value!.toPrecision(3)})`);
+      lines.push(`within ±${s.zero_test.margin_deg_s} deg/s of zero: ${s.zero_test.equivalent_to_zero ? 'yes' : 'not shown'} (TOST ${pText(s.zero_test.equivalence_p_value!)})`);
     }
   }
   if (report.spinup && report.model === 'spinup') lines.push(`terminal rate ${show(report.spinup.terminal_rate_deg_s, 'deg/s')}, tau ${show(report.spinup.tau_s, 's')}`);

@@ -1,7 +1,8 @@
+import { decimalsToShow } from '../decimalsToShow.js';
+
 /** Decimal places that show a standard error to two significant digits (0–6). */
 export function decimalsFor(se: number): number {
-  if (!(se > 0) || !Number.isFinite(se)) return 3;
-  return Math.min(6, Math.max(0, 1 - Math.floor(Math.log10(se))));
+  return decimalsToShow(se, 6, 3);
 }
 
 /** A number with fixed decimals, a true minus sign, '—' for NaN and ±∞ spelled out. */

@@ -49,6 +49,9 @@ describe('revtrace fit', () => {
     expect(Number(printed![2])).toBeCloseTo(rate.ci[0], 3);
     expect(Number(printed![3])).toBeCloseTo(rate.ci[1], 3);
     expect(report.steady.zero_test.margin_deg_s).toBe(0.5);
+    // p-values read the same on every line: two significant digits, or "< 0.001" (never "0.00" or "2.49e-9")
+    expect(r.stdout).toMatch(/differs from zero: p (< 0\.001|= 0\.\d\d+);/);
+    expect(r.stdout).toMatch(/\(TOST p (< 0\.001|= 0\.\d\d+)\)/);
     expect(report.diagnostics.lost_share).toBeCloseTo(24 / 600, 3); // frames i ≡ 3 (mod 25) of 600 were written blank: 24
     expect(existsSync(join(dir, 'run', 'rate.csv'))).toBe(true);
   });
