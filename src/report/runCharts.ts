@@ -112,7 +112,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
         layer: [
           { data: { values: [{ lo: st.rate_deg_s.ci[0], hi: st.rate_deg_s.ci[1], y: st.rate_deg_s.value }] }, mark: { type: 'rect', color: PALETTE.band, opacity: 0.45 }, encoding: { y: { field: 'lo', type: 'quantitative' }, y2: { field: 'hi' } } },
           { data: { values: [{ y: st.rate_deg_s.value }] }, mark: { type: 'rule', color: PALETTE.model, strokeDash: [6, 3] }, encoding: { y: { field: 'y', type: 'quantitative' } } },
-          { data: { values: rows }, mark: { type: 'rule', color: PALETTE.data, strokeWidth: 1.5 }, encoding: { x: { field: 't', type: 'quantitative', title: 'segment middle (s)', scale: { zero: false } }, y: { field: 'lo', type: 'quantitative', title: 'rate (deg/s)', scale: { zero: false } }, y2: { field: 'hi' } } },
+          { data: { values: rows }, mark: { type: 'rule', color: PALETTE.data, strokeWidth: 1.5 }, encoding: { x: { field: 't', type: 'quantitative', title: 'segment middle (s)', scale: { zero: false, padding: 12 } }, y: { field: 'lo', type: 'quantitative', title: 'rate (deg/s)', scale: { zero: false } }, y2: { field: 'hi' } } },
           { data: { values: rows }, mark: { type: 'point', shape: 'square', filled: true, color: PALETTE.data, size: 36 }, encoding: { x: { field: 't', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } } },
         ],
       } as TopLevelSpec,
@@ -152,7 +152,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     const yScale = { nice: false, zero: false, reverse: true };
     charts.push({
       id: 'path',
-      title: 'Marker path, fitted ellipse and centre',
+      title: track.view ? 'Marker path, fitted ellipse and centre' : 'Marker path and centre',
       caption: `Dots: marker positions (a sample, full-frame pixels, y down as in the video${track.markers ? `; all ${track.markers.count} markers` : ''}). ${track.view ? `Line: fitted ellipse${track.markers ? ', one per marker' : ''} (axis ratio ${formatFixed(track.view.axis_ratio, 3)}). ` : ''}Cross: centre (${track.centre.source === 'given' ? 'given' : 'fitted'}, ${formatFixed(cx, 1)}, ${formatFixed(cy, 1)} px).`,
       spec: {
         $schema: SCHEMA,

@@ -31,6 +31,14 @@ function ellipsesOf(data: RunData): Map<number, { x: number; y: number }[]> {
 }
 
 describe('runChartSpecs, marker path', () => {
+  it('promises an ellipse only when one was fitted (a given centre without a view draws none)', () => {
+    const path = (d: RunData) => runChartSpecs(d).find((c) => c.id === 'path')!;
+    expect(path(run).title).toBe('Marker path, fitted ellipse and centre');
+    const noView: RunData = { ...run, track: { ...run.track!, view: null } };
+    expect(path(noView).title).toBe('Marker path and centre');
+    expect(path(noView).caption).not.toMatch(/ellipse/);
+  });
+
   // The test batch's view: centre (120, 110), semi-axes 60 × 45 px, major axis along x (axis ratio 0.75).
   it('draws the fitted ellipse of a single marker', () => {
     const e = ellipsesOf(run);
