@@ -74,6 +74,19 @@ export function firstCandidates<S extends { x_px: number; y_px: number }>(spots:
   return spots.filter((s) => distance(s) >= MIN_PATH_RADIUS_PX).sort((a, b) => distance(a) - distance(b)).slice(0, MOST_CANDIDATES);
 }
 
+/** The detections of a track: its positions with the lost frames (NaN) left out, px. */
+function detections(x_px: ArrayLike<number>, y_px: ArrayLike<number>): { xs: number[]; ys: number[] } {
+  const xs: number[] = [];
+  const ys: number[] = [];
+  for (let i = 0; i < x_px.length; i++) {
+    if (Number.isFinite(x_px[i]) && Number.isFinite(y_px[i])) {
+      xs.push(x_px[i]);
+      ys.push(y_px[i]);
+    }
+  }
+  return { xs, ys };
+}
+
 /**
  * How well a set of detections (full-frame px, NaN = none) looks like a marker going round a centre.
  * About a given centre: the number of detections within the off-path band of their median distance from it
@@ -88,14 +101,7 @@ export function firstCandidates<S extends { x_px: number; y_px: number }>(spots:
  * path has its centre far outside the path.
  */
 export function circularPathScore(x_px: ArrayLike<number>, y_px: ArrayLike<number>, centre: { x_px: number; y_px: number } | null): number {
-  const xs: number[] = [];
-  const ys: number[] = [];
-  for (let i = 0; i < x_px.length; i++) {
-    if (Number.isFinite(x_px[i]) && Number.isFinite(y_px[i])) {
-      xs.push(x_px[i]);
-      ys.push(y_px[i]);
-    }
-  }
+  const { xs, ys } = detections(x_px, y_px);
   if (xs.length < 5) return 0;
   if (centre) {
     const { off, median_radius_px } = offCircle(xs, ys, { cx_px: centre.x_px, cy_px: centre.y_px, axis_ratio: 1, major_axis_deg: 0 });
@@ -121,16 +127,38 @@ export function circularPathScore(x_px: ArrayLike<number>, y_px: ArrayLike<numbe
   return sweep_px >= MIN_PATH_RADIUS_PX ? ix.length : 0;
 }
 
-/** Index of the candidate track that best looks like a marker on a circle (circularPathScore of its steadied positions); 0 when there is one. */
+/** About a given centre, candidates scoring at least this share of the best are told apart by how they move (pickMarkerTrack). */
+const NEAR_BEST_SHARE = 0.9;
+
+/** How far a track's detections went round the centre, px along their median circle (the arc they cover, not the turns). */
+export function sweptArc_px(x_px: ArrayLike<number>, y_px: ArrayLike<number>, centre: { x_px: number; y_px: number }): number {
+  const { xs, ys } = detections(x_px, y_px);
+  if (xs.length < 2) return 0;
+  const radius = upperMedian(xs.map((x, i) => Math.hypot(x - centre.x_px, ys[i] - centre.y_px)));
+  return ((arcCoverage(xs, ys, centre.x_px, centre.y_px) * Math.PI) / 180) * radius;
+}
+
+/**
+ * Index of the candidate track that best looks like a marker on a circle (circularPathScore of its steadied
+ * positions); 0 when there is one. About a given centre a still pattern of the scene keeps its distance as well
+ * as the marker does, so candidates within NEAR_BEST_SHARE of the best score are told apart: the one that went
+ * furthest round the centre, when any went MIN_PATH_RADIUS_PX or more; else (a hub at rest) the one nearest the centre.
+ */
 export function pickMarkerTrack(paths: MarkerPathStore, centre: { x_px: number; y_px: number } | null): number {
-  let best = 0;
-  let bestScore = -1;
-  for (let k = 0; k < paths.count; k++) {
-    const s = circularPathScore(paths.sx_px[k].subarray(0, paths.n), paths.sy_px[k].subarray(0, paths.n), centre);
-    if (s > bestScore) {
-      best = k;
-      bestScore = s;
-    }
-  }
-  return best;
+  const sx = (k: number) => paths.sx_px[k].subarray(0, paths.n);
+  const sy = (k: number) => paths.sy_px[k].subarray(0, paths.n);
+  const scores = Array.from({ length: paths.count }, (_, k) => circularPathScore(sx(k), sy(k), centre));
+  const bestScore = Math.max(...scores);
+  const first = scores.indexOf(bestScore);
+  if (!centre || !(bestScore > 0)) return first;
+  const near = scores.flatMap((s, k) => (s >= NEAR_BEST_SHARE * bestScore ? [k] : []));
+  if (near.length === 1) return first;
+  const swept = near.map((k) => sweptArc_px(sx(k), sy(k), centre));
+  const most = Math.max(...swept);
+  if (most >= MIN_PATH_RADIUS_PX) return near[swept.indexOf(most)]!;
+  const distance = near.map((k) => {
+    const { xs, ys } = detections(sx(k), sy(k));
+    return upperMedian(xs.map((x, i) => Math.hypot(x - centre.x_px, ys[i]! - centre.y_px)));
+  });
+  return near[distance.indexOf(Math.min(...distance))]!;
 }

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { findSpots } from '../../src/track/findSpots.js';
-import { circularPathScore, firstCandidates } from '../../src/track/markerHypotheses.js';
+import { circularPathScore, firstCandidates, pickMarkerTrack } from '../../src/track/markerHypotheses.js';
+import { MarkerPathStore } from '../../src/track/MarkerPathStore.js';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -56,6 +57,37 @@ describe('circularPathScore', () => {
     const marker = arc(160, 120, 81, 0, 5, 90);
     for (let i = 0; i < 90; i += 3) marker.x[i] = NaN;
     expect(circularPathScore(marker.x, marker.y, { x_px: 160, y_px: 120 })).toBe(60);
+  });
+});
+
+/** A store of candidate tracks, one per list of points (NaN = lost). */
+function storeOf(tracks: { x: ArrayLike<number>; y: ArrayLike<number> }[]): MarkerPathStore {
+  const store = new MarkerPathStore(tracks.length);
+  for (let i = 0; i < tracks[0]!.x.length; i++) {
+    const at = tracks.map((t) => ({ x_px: t.x[i]!, y_px: t.y[i]! }));
+    store.push(at.map((p) => ({ ...p, quality: Number.isFinite(p.x_px) ? 1 : 0, flag: Number.isFinite(p.x_px) ? '' : 'lost:no-blob' })), at, at);
+  }
+  return store;
+}
+const still = (x: number, y: number, n: number) => ({ x: new Float64Array(n).fill(x), y: new Float64Array(n).fill(y) });
+
+describe('pickMarkerTrack about a given centre', () => {
+  const centre = { x_px: 160, y_px: 120 };
+
+  it('prefers the spot that goes round over a still pattern that keeps its distance as well (and lost no frame)', () => {
+    const turning = arc(160, 120, 81, 0, 12, 90);
+    turning.x[40] = turning.y[40] = Number.NaN; // the marker blurred out in two frames
+    turning.x[41] = turning.y[41] = Number.NaN;
+    expect(pickMarkerTrack(storeOf([still(29, 22, 90), turning]), centre)).toBe(1);
+  });
+
+  it('with a hub at rest (nothing goes round), takes the still spot nearest the centre', () => {
+    expect(pickMarkerTrack(storeOf([still(29, 22, 60), still(241, 120, 60)]), centre)).toBe(1);
+  });
+
+  it('keeps the far better score: a spot that scores under 0.9 of the best is not taken for moving more', () => {
+    const drift = { x: Float64Array.from({ length: 60 }, (_, i) => 60 + 3 * i), y: new Float64Array(60).fill(100) }; // a particle crossing
+    expect(pickMarkerTrack(storeOf([drift, still(241, 120, 60)]), centre)).toBe(1);
   });
 });
 
