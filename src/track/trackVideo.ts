@@ -273,6 +273,12 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
         cy = centre.y_px;
       } else {
         const { circle, arc_deg: arc } = pathCircle(gx, gy);
+        const skipped = follower?.unfollowed ?? 0;
+        if (!(arc >= 1) && skipped > 0) {
+          throw new InputError(
+            `the spot followed did not move, and the first frame showed ${skipped} more spot${skipped === 1 ? '' : 's'} than could be followed (the biggest were), so the marker may not have been among them; give --roi around the marker's circle`,
+          );
+        }
         if (!(arc >= MIN_ARC_FREE_DEG)) {
           throw new InputError(
             `the marker swept only ${arc.toFixed(0)}° of its circle, too little to fit the centre and view; give --center x,y (and --tilt deg if the camera is not square to the axis)`,

@@ -109,11 +109,13 @@ describe('firstCandidates', () => {
     expect(firstCandidates(biggestFirst, null)).toEqual(pattern.slice(0, 6));
   });
 
-  it('lets trackVideo follow the marker of a whole 640×360 frame with the still checkerboard in its corner, given --center', async () => {
+  it('lets trackVideo follow the marker of a whole 640×360 frame with the still checkerboard in its corner, given --center (and names the cause without it)', async () => {
     // our renderer's default scene (fixed 4×4 checkerboard top-left) turning at −1.5 deg/s for 3 s; truth from the renderer
     const dir = await mkdtemp(join(tmpdir(), 'revtrace-firstcand-'));
     try {
       const clip = await renderClip({ seed: 1, width_px: 640, height_px: 360, fps: 30, duration_s: 3, profile: { kind: 'steady', rate_deg_s: -1.5 }, realism: { noise_sigma: 2, crf: 23 } }, join(dir, 'check.mp4'));
+      // without a centre the six biggest spots are followed, all of them checkerboard squares: say so, not "give --center"
+      await expect(trackVideo(clip.videoPath)).rejects.toThrow(/^the spot followed did not move, and the first frame showed 3 more spots than could be followed \(the biggest were\), so the marker may not have been among them; give --roi around the marker's circle$/);
       const r = await trackVideo(clip.videoPath, { centre: { x: 320, y: 180 } });
       expect(r.summary.frames.lost).toBe(0);
       const a = r.series.angle_deg;
