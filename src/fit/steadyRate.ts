@@ -395,6 +395,36 @@ export function segmentHomogeneityP(fits: readonly { slope: number; se: number; 
   return 1 - jStat.centralF.cdf(stat, k - 1, nu);
 }
 
+/**
+ * p-value of "the rate inside the segments equals the rate of the whole window": d = ω̄_within − ω̂_whole, with
+ * ω̄_within the 1/v_s-weighted mean of the segment slopes. Under a steady rate both estimate it and the whole-window
+ * fit is the efficient one, so Var(d) = Var(ω̄_within) − Var(ω̂_whole) (Hausman 1978, Econometrica 46:1251; from
+ * memory), with model-based variances scaled by the segments' pooled jackknife factor ĉ and referred to F(1, ν) as
+ * in segmentHomogeneityP. A jump of the angle between segments (a splice, a skipped turn, a tracking jump) leaves
+ * every segment's slope alone but moves the whole-window slope. Null when the variances are not usable.
+ */
+export function withinVersusWholeP(whole: { slope: number; modelSe: number }, fits: readonly { slope: number; se: number; df: number; modelSe: number }[]): number | null {
+  if (fits.length < 2 || !fits.every((f) => f.se > 0 && Number.isFinite(f.se) && f.df > 0 && f.modelSe > 0 && Number.isFinite(f.modelSe))) return null;
+  let sw = 0;
+  let swb = 0;
+  let nu = 0;
+  let ratio = 0;
+  for (const f of fits) {
+    const v = f.modelSe ** 2;
+    sw += 1 / v;
+    swb += f.slope / v;
+    nu += f.df;
+    ratio += f.df * (f.se ** 2 / v);
+  }
+  const within = swb / sw;
+  const vWithin = 1 / sw;
+  // never below a tenth of the within variance: the two variances are estimates, and their difference can vanish
+  const vDiff = Math.max(vWithin - whole.modelSe ** 2, 0.1 * vWithin) * (ratio / nu);
+  if (!(vDiff > 0) || !Number.isFinite(vDiff)) return null;
+  const stat = (within - whole.slope) ** 2 / vDiff;
+  return 1 - jStat.centralF.cdf(stat, 1, nu);
+}
+
 /** True when y is a straight line in t to within rounding (largest least-squares residual ≤ 1e-9 of the angle span, deg). */
 function liesOnALine(t: Float64Array, y: Float64Array): boolean {
   const n = t.length;
@@ -481,6 +511,8 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
   const duration = t[n - 1]!;
   let segments: SegmentRate[] = [];
   let segmentP: number | null = null;
+  let jumpP: number | null = null;
+  let withinRate = Number.NaN;
   const minRows = 10;
   for (; k >= 1; k--) {
     const bounds: number[] = [0];
@@ -501,7 +533,11 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
       t1_s: t0 + t[bounds[s + 1]! - 1]!,
       rate_deg_s: estimate(f.slope, f.se, f.df, level),
     }));
-    if (k > 1) segmentP = segmentHomogeneityP(fits);
+    if (k > 1) {
+      segmentP = segmentHomogeneityP(fits);
+      jumpP = withinVersusWholeP(whole, fits);
+      withinRate = fits.reduce((a, f) => a + f.slope / f.modelSe ** 2, 0) / fits.reduce((a, f) => a + 1 / f.modelSe ** 2, 0);
+    }
     break;
   }
 
@@ -523,6 +559,11 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
   if (segmentP !== null && segmentP < 0.01) {
     warnings.push(
       `the segment rates differ more than the noise explains (p ${segmentP < 0.001 ? '< 0.001' : `= ${segmentP.toPrecision(2)}`}): the rate is not steady across the window, so the interval describes the window's mean rate`,
+    );
+  }
+  if (jumpP !== null && jumpP < 0.001) {
+    warnings.push(
+      `the rate over the whole window (${whole.slope.toPrecision(4)} deg/s) disagrees with the rate inside its segments (${withinRate.toPrecision(4)} deg/s; p ${jumpP < 1e-6 ? '< 1e-6' : `= ${jumpP.toPrecision(2)}`}): the angle jumps somewhere (a splice in the clip, a skipped turn, a tracking jump), so the interval does not describe the rotor; look at the angle plot and preview.png`,
     );
   }
   const result: SteadyResult = {
