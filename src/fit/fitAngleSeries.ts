@@ -4,6 +4,8 @@ import { fitSteadyRate, type SteadyRateFit } from './steadyRate.js';
 import { fitSpinUp } from './spinUp.js';
 import { fitCoastDown } from './coastDown.js';
 import { chooseModel } from './chooseModel.js';
+import { curveMisfit } from './curveMisfit.js';
+import { checkOptionNames } from '../checkOptionNames.js';
 import { angleNoiseCovariance } from './angleNoiseModel.js';
 import { smoothRate } from '../signal/smoothRate.js';
 import { autocorrelation } from '../signal/longRunVariance.js';
@@ -132,7 +134,13 @@ const METHOD_RATE = 'rate curve by local quadratic least squares in real time (S
  * With 'auto' every model that could be fitted is reported; `model` names the chosen one.
  * @throws InputError for bad input (one sentence), FitError when the requested model cannot be fitted
  */
+/** Every option name fitAngleSeries reads. */
+const FIT_OPTION_NAMES: readonly (keyof FitOptions)[] = ['model', 'from_s', 'to_s', 'level', 'margin_deg_s', 'seed', 'smoothing_half_width_s'];
+/** Spellings people reach for, and the option meant. */
+const FIT_OPTION_SPELLINGS: Record<string, keyof FitOptions> = { from: 'from_s', to: 'to_s', margin: 'margin_deg_s', confidence: 'level', smoothing: 'smoothing_half_width_s', half_width_s: 'smoothing_half_width_s' };
+
 export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}): FitResult {
+  checkOptionNames('fitAngleSeries', options, FIT_OPTION_NAMES, FIT_OPTION_SPELLINGS);
   const model = options.model ?? 'steady';
   const level = options.level ?? 0.95;
   if (!(level > 0 && level < 1)) throw new InputError(`the confidence level must lie between 0 and 1 (e.g. 0.95), got ${level}`);
@@ -215,6 +223,11 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
   const residuals = best.residuals_deg;
   let rss = 0;
   for (const e of residuals) rss += e * e;
+  const residualAutocorrelation = autocorrelation(residuals, 5);
+  if (chosen !== 'steady') {
+    const misfit = curveMisfit(chosen === 'spinup' ? 'spin-up' : 'coast-down', Math.sqrt(rss / n), residualAutocorrelation[0] ?? 0, y);
+    if (misfit) warnings.push(misfit);
+  }
   const methods = [
     ...(fits.steady ? [METHOD_STEADY] : []),
     ...(fits.spinup || fits.spindown ? [METHOD_NONLINEAR] : []),
@@ -228,7 +241,7 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
     n,
     method: methods.join('; ') + '.',
     diagnostics: {
-      residual_autocorrelation: autocorrelation(residuals, 5).map((r) => Number(r.toFixed(4))),
+      residual_autocorrelation: residualAutocorrelation.map((r) => Number(r.toFixed(4))),
       lost_share: lostShare,
       residual_rms_deg: Math.sqrt(rss / n),
       warnings,

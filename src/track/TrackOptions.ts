@@ -1,4 +1,5 @@
 import { InputError } from '../errors.js';
+import { checkOptionNames } from '../checkOptionNames.js';
 import type { VideoHeader } from '../video/probeVideo.js';
 
 /** A rectangle in full-frame pixels of the displayed video: x, y of the top-left corner, width, height. */
@@ -49,11 +50,7 @@ const TRACK_OPTION_SPELLINGS: Record<string, keyof TrackOptions> = { center: 'ce
 
 /** Throws an InputError naming the first option trackVideo does not know (for callers from plain JavaScript, where types do not check it). */
 export function checkTrackOptionNames(options: object): void {
-  for (const name of Object.keys(options)) {
-    if ((TRACK_OPTION_NAMES as readonly string[]).includes(name)) continue;
-    const meant = TRACK_OPTION_SPELLINGS[name];
-    throw new InputError(`trackVideo has no option '${name}'${meant ? `; did you mean '${meant}'?` : `; the options are ${TRACK_OPTION_NAMES.join(', ')}`}`);
-  }
+  checkOptionNames('trackVideo', options, TRACK_OPTION_NAMES, TRACK_OPTION_SPELLINGS);
 }
 
 export type MarkerMode = { kind: 'bright' } | { kind: 'dark' } | { kind: 'color'; rgb: [number, number, number]; hex: string } | { kind: 'texture' };

@@ -143,3 +143,12 @@ describe('the rate band of a steady run (rate.csv)', () => {
     expect(c).toBeLessThan(0.995);
   });
 });
+
+describe('fitAngleSeries options', () => {
+  it('refuses an option it does not know, as trackVideo does, naming the one meant', () => {
+    const t_s = Float64Array.from({ length: 60 }, (_, i) => i / 30);
+    const angle_deg = t_s.map((t) => 10 * t);
+    expect(() => fitAngleSeries({ t_s, angle_deg }, { from: 2 } as never)).toThrow("fitAngleSeries has no option 'from'; did you mean 'from_s'?");
+    expect(() => fitAngleSeries({ t_s, angle_deg }, { margin: 0.2 } as never)).toThrow("fitAngleSeries has no option 'margin'; did you mean 'margin_deg_s'?");
+  });
+});
