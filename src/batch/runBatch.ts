@@ -243,10 +243,9 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
 }
 
 /**
- * Removes summary.csv and batch.json before the first run folder is reset, so that an interrupted batch never
- * leaves a summary listing as ok a run whose files are gone (the next complete batch, or revtrace report, writes them again).
+ * Removes summary.csv, batch.json and the report before the first run folder is reset, so that an interrupted batch
+ * never leaves a summary or report listing as ok a run whose files are gone (the next complete batch writes them again).
  */
 async function dropStaleSummary(outDir: string): Promise<void> {
-  await rm(join(outDir, 'summary.csv'), { force: true });
-  await rm(join(outDir, 'batch.json'), { force: true });
+  for (const name of ['summary.csv', 'batch.json', 'report.html']) await rm(join(outDir, name), { force: true });
 }

@@ -63,7 +63,7 @@ export function registerBatch(program: Command): void {
       }
       if (outcome.interrupted) {
         if (outputClosed && !process.stderr.destroyed) {
-          process.stderr.write('revtrace: the output pipe was closed, so the batch stopped; finished runs are kept, run the same command again to finish the rest\n');
+          process.stderr.write('revtrace: the output pipe was closed, so the batch stopped; runs finished so far are kept, run the same command again to finish the rest\n');
         }
         process.exitCode = 130;
         return;

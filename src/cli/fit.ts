@@ -52,11 +52,16 @@ export function fitSummaryText(report: FitReport, outPath: string): string {
       lines.push(`allowing for rate wander up to ${w.hidden_walk_bound_deg_per_sqrt_s.toPrecision(2)} deg/√s (too small to detect here): ${show(w.rate_deg_s, 'deg/s')}, differs from zero: ${pText(w.zero_test.p_value)}`);
     }
     if (s.zero_test.margin_deg_s !== undefined) {
-      lines.push(`within ±${s.zero_test.margin_deg_s} deg/s of zero: ${s.zero_test.equivalent_to_zero ? 'yes' : 'not shown'} (TOST ${pText(s.zero_test.equivalence_p_value!)})`);
+      lines.push(`within ±${s.zero_test.margin_deg_s} deg/s of zero: ${s.zero_test.equivalent_to_zero ? 'yes' : 'not established'} (TOST ${pText(s.zero_test.equivalence_p_value!)})`);
     }
   }
-  if (report.spinup && report.model === 'spinup') lines.push(`terminal rate ${show(report.spinup.terminal_rate_deg_s, 'deg/s')}, tau ${show(report.spinup.tau_s, 's')}`);
-  if (report.spindown && report.model === 'spindown') lines.push(`initial rate ${show(report.spindown.initial_rate_deg_s, 'deg/s')}`);
+  const up = report.model === 'spinup' ? report.spinup : undefined;
+  if (up) lines.push(`terminal rate ${show(up.terminal_rate_deg_s, 'deg/s')}, tau ${show(up.tau_s, 's')}`, `onset ${show(up.onset_s, 's')}`);
+  const down = report.model === 'spindown' ? report.spindown : undefined;
+  if (down) {
+    lines.push(`initial rate ${show(down.initial_rate_deg_s, 'deg/s')}`);
+    lines.push(`Coulomb friction ${show(down.coulomb_deg_s2, 'deg/s²')}, viscous ${show(down.viscous_per_s, '1/s')}${down.stop_s !== null ? `; stops at ${Number(down.stop_s.toPrecision(4))} s` : ''}`);
+  }
   for (const w of report.diagnostics.warnings) lines.push(`warning: ${w}`);
   lines.push(`wrote ${outPath} and rate.csv beside it`);
   return lines.join('\n') + '\n';

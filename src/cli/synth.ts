@@ -229,7 +229,7 @@ export function registerSynth(program: Command): void {
     .option('--tank-edge <y>', 'draw a horizontal tank edge at this image row')
     .option('--rate <deg_s>', 'steady rotation, deg/s, counterclockwise positive (default 90)')
     .option('--spin-up <t0,rate,tau>', 'at rest until t0 s, then first-order spin-up towards rate deg/s with time constant tau s')
-    .option('--coast-down <rate,c,k[,t0]>', 'turning at rate deg/s, from t0 s (default 0.2) slowing under dω/dt = −c − kω until it stops')
+    .option('--coast-down <rate,c,k[,t0]>', 'turning at rate deg/s, from t0 s (default 0.2) slowing under dω/dt = −c·sign(ω) − kω until it stops')
     .option('--cycle <rest,rate,tau,spin,steady,c,k>', 'rest for rest s, spin up for spin s, hold for steady s, then coast down')
     .option('--angle0 <deg>', 'rotor angle at the start (default 0)')
     .option('--noise <sigma>', 'sensor noise, standard deviation in gray levels')

@@ -100,7 +100,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     });
   }
 
-  if (fit?.steady && fit.steady.segments.length > 0) {
+  if (fit?.model === 'steady' && fit.steady && fit.steady.segments.length > 0) {
     const st = fit.steady;
     const rows = st.segments.map((s, i) => ({ t: num((s.t0_s + s.t1_s) / 2), t0: num(s.t0_s), t1: num(s.t1_s), y: num(s.rate_deg_s.value), lo: num(s.rate_deg_s.ci[0]), hi: num(s.rate_deg_s.ci[1]), segment: i + 1 }));
     charts.push({
@@ -140,6 +140,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
         }
       });
     }
+    const drawn = ellipse.some((p) => p.x !== null && p.y !== null); // a view assumed square-on (no fit) has no size to draw
     const xs = [...pts.map((p) => p.x ?? cx), ...ellipse.map((p) => p.x ?? cx), cx];
     const ys = [...pts.map((p) => p.y ?? cy), ...ellipse.map((p) => p.y ?? cy), cy];
     const half = Math.max(Math.max(...xs) - Math.min(...xs), Math.max(...ys) - Math.min(...ys)) / 2 * 1.08 || 10;
@@ -152,8 +153,8 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     const yScale = { nice: false, zero: false, reverse: true };
     charts.push({
       id: 'path',
-      title: track.view ? 'Marker path, fitted ellipse and centre' : 'Marker path and centre',
-      caption: `Dots: marker positions (a sample, full-frame pixels, y down as in the video${track.markers ? `; all ${track.markers.count} markers` : ''}). ${track.view ? `Line: fitted ellipse${track.markers ? ', one per marker' : ''} (axis ratio ${formatFixed(track.view.axis_ratio, 3)}). ` : ''}Cross: centre (${track.centre.source === 'given' ? 'given' : 'fitted'}, ${formatFixed(cx, 1)}, ${formatFixed(cy, 1)} px).`,
+      title: drawn ? 'Marker path, fitted ellipse and centre' : 'Marker path and centre',
+      caption: `Dots: marker positions (a sample, full-frame pixels, y down as in the video${track.markers ? `; all ${track.markers.count} markers` : ''}). ${drawn && track.view ? `Line: fitted ellipse${track.markers ? ', one per marker' : ''} (axis ratio ${formatFixed(track.view.axis_ratio, 3)}). ` : ''}Cross: centre (${track.centre.source === 'given' ? 'given' : 'fitted'}, ${formatFixed(cx, 1)}, ${formatFixed(cy, 1)} px).`,
       spec: {
         $schema: SCHEMA,
         width: side,
@@ -161,7 +162,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
         layer: [
           { data: { values: corners }, mark: { type: 'point', opacity: 0, size: 1 }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } } },
           { data: { values: pts }, mark: { type: 'point', filled: true, size: 16, opacity: 0.7, color: PALETTE.data }, encoding: { x: { field: 'x', type: 'quantitative', title: 'x (px)', scale: xScale }, y: { field: 'y', type: 'quantitative', title: 'y (px, down)', scale: yScale } } },
-          ...(ellipse.length > 0 ? [{ data: { values: ellipse }, mark: { type: 'line', color: PALETTE.model, strokeWidth: 1.2, strokeDash: [6, 3] }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' }, detail: { field: 'm', type: 'nominal' }, order: { field: 'k', type: 'quantitative' } } }] : []),
+          ...(drawn ? [{ data: { values: ellipse }, mark: { type: 'line', color: PALETTE.model, strokeWidth: 1.2, strokeDash: [6, 3] }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' }, detail: { field: 'm', type: 'nominal' }, order: { field: 'k', type: 'quantitative' } } }] : []),
           { data: { values: [{ x: cx, y: cy }] }, mark: { type: 'point', shape: 'cross', filled: true, size: 140, color: PALETTE.ink }, encoding: { x: { field: 'x', type: 'quantitative' }, y: { field: 'y', type: 'quantitative' } } },
         ],
       } as TopLevelSpec,

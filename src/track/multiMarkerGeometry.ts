@@ -80,7 +80,7 @@ export function multiMarkerGeometry(input: MultiMarkerGeometryInput): MultiMarke
     const arc = arcCoverage(allX, allY, start.cx_px, start.cy_px);
     if (!(arc >= MIN_ARC_FREE_DEG)) {
       throw new InputError(
-        `the ${m} markers together swept only ${arc.toFixed(0)}° of the circle, too little to fit the centre and view; give --center x,y (and --tilt deg if the camera is not square to the axis)`,
+        `the ${m} markers together swept only ${arc.toFixed(0)}° of the circle, too little to fit the centre and view; give --center x,y (and the tilt in degrees with --tilt if the camera is not square to the axis)`,
       );
     }
     cx = start.cx_px;

@@ -281,7 +281,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
         }
         if (!(arc >= MIN_ARC_FREE_DEG)) {
           throw new InputError(
-            `the marker swept only ${arc.toFixed(0)}° of its circle, too little to fit the centre and view; give --center x,y (and --tilt deg if the camera is not square to the axis)`,
+            `the marker swept only ${arc.toFixed(0)}° of its circle, too little to fit the centre and view; give --center x,y (and the tilt in degrees with --tilt if the camera is not square to the axis)`,
           );
         }
         cx = circle.cx_px;
@@ -300,7 +300,7 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
       if (canFit && !fit) {
         const ignored: string[] = [];
         ({ view, view_summary: viewSummary, centre_summary: centreSummary } = viewWithoutPathFit(cx, cy, { centre, tilt_deg: options.tilt_deg, tilt_axis_deg: options.tilt_axis_deg }, arcAbout, 'The marker', ignored));
-        warnings.push(`The marker's detections do not lie on an ellipse about --center, so the view could not be measured; ${options.tilt_deg === undefined ? 'angles assume a square-on camera (give --tilt deg if it is not)' : `angles use the given --tilt ${options.tilt_deg}°`}; check preview.png for something else followed.`);
+        warnings.push(`The marker's detections do not lie on an ellipse about --center, so the view could not be measured; ${options.tilt_deg === undefined ? 'angles assume a square-on camera (give the tilt in degrees with --tilt if it is not)' : `angles use the given --tilt ${options.tilt_deg}°`}; check preview.png for something else followed.`);
       } else if (fit) {
         // frames far off the fitted path are not trusted
         for (let k = 0; k < good.length; k++) {

@@ -88,7 +88,7 @@ export function viewWithoutPathFit(cx_px: number, cy_px: number, settings: ViewS
   const ratio = settings.tilt_deg !== undefined ? Math.cos((settings.tilt_deg * Math.PI) / 180) : 1;
   const view: ViewGeometry = { cx_px, cy_px, axis_ratio: ratio, major_axis_deg: settings.tilt_axis_deg ?? 0 };
   if (settings.tilt_deg === undefined) {
-    warnings.push(`${swept} swept only ${arc_deg.toFixed(0)}° about --center, too little to measure the view; angles assume a square-on camera (give --tilt deg if it is not).`);
+    warnings.push(`${swept} swept only ${arc_deg.toFixed(0)}° about --center, too little to measure the view; angles assume a square-on camera (give the tilt in degrees with --tilt if it is not).`);
   }
   return {
     view,

@@ -4,8 +4,8 @@ import { inManifestTerms } from '../../src/batch/inManifestTerms.js';
 
 describe('inManifestTerms', () => {
   it('turns each option a manifest column sets into that column', () => {
-    expect(inManifestTerms('the marker swept only 40° of its circle; give --center x,y (and --tilt deg if the camera is not square to the axis)'))
-      .toBe('the marker swept only 40° of its circle; give column center x,y (and column tilt deg if the camera is not square to the axis)');
+    expect(inManifestTerms('the marker swept only 40° of its circle; give --center x,y (and the tilt in degrees with --tilt if the camera is not square to the axis)'))
+      .toBe('the marker swept only 40° of its circle; give column center x,y (and the tilt in degrees with column tilt if the camera is not square to the axis)');
     expect(inManifestTerms('--markers 3 needs marker spots; --marker texture follows the surface')).toBe('column markers 3 needs marker spots; column marker texture follows the surface');
     expect(inManifestTerms('check --from and --to')).toBe('check column from and column to');
   });

@@ -182,11 +182,12 @@ describe('runBatch with a stand-in processor', () => {
     expect((await readSummary(out)).length).toBe(6);
   });
 
-  it('an interrupted redo leaves no summary that lists as ok a run whose files it has removed; a cached rerun keeps it', async () => {
+  it('an interrupted redo leaves no summary or report that lists as ok a run whose files it has removed; a cached rerun keeps them', async () => {
     const { manifest, out } = await day(SIX);
     await runBatch(manifest, { out, processor: fake() });
     await runBatch(manifest, { out, processor: fake() }); // everything cached: the summary is rewritten, not dropped
     expect((await readdir(out)).sort()).toEqual(['batch.json', 'runs', 'summary.csv']);
+    await writeFile(join(out, 'report.html'), '<p>the last complete batch</p>'); // as the CLI writes it
     const controller = new AbortController();
     const o = await runBatch(manifest, {
       out, jobs: 1, force: true, processor: fake({ delayMs: 40 }), signal: controller.signal,

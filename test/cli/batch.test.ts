@@ -60,7 +60,7 @@ describe('revtrace batch', () => {
     child.stdout.once('data', () => child.stdout.destroy()); // as `| head -1` does after the first line
     const code = await new Promise<number | null>((resolve) => child.on('exit', (c) => resolve(c)));
     expect(code).toBe(130);
-    expect(stderr).toBe('revtrace: the output pipe was closed, so the batch stopped; finished runs are kept, run the same command again to finish the rest\n');
+    expect(stderr).toBe('revtrace: the output pipe was closed, so the batch stopped; runs finished so far are kept, run the same command again to finish the rest\n');
     const again = revtrace(['batch', 'day.csv', '--quiet'], dir);
     expect(again.status, again.stderr).toBe(0);
   });

@@ -37,6 +37,10 @@ describe('runChartSpecs, marker path', () => {
     const noView: RunData = { ...run, track: { ...run.track!, view: null } };
     expect(path(noView).title).toBe('Marker path and centre');
     expect(path(noView).caption).not.toMatch(/ellipse/);
+    // a view assumed square-on (a short sweep about a given centre) has no size: nothing drawn, nothing promised
+    const unsized: RunData = { ...run, track: { ...run.track!, view: { ...run.track!.view!, semi_major_px: Number.NaN, semi_minor_px: Number.NaN } } };
+    expect(path(unsized).title).toBe('Marker path and centre');
+    expect(path(unsized).caption).not.toMatch(/ellipse/);
   });
 
   // The test batch's view: centre (120, 110), semi-axes 60 × 45 px, major axis along x (axis ratio 0.75).

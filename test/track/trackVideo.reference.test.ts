@@ -115,7 +115,7 @@ describe('marker kinds and outputs', () => {
 
   it('asks for --center when the run is too short to fit the path', async () => {
     const clip = await renderClip({ seed: 3, duration_s: 0.5, profile: { kind: 'steady', rate_deg_s: 60 } }, join(dir, 'short.mp4'));
-    await expect(trackVideo(clip.videoPath, {})).rejects.toThrow(/swept only \d+° .* give --center x,y \(and --tilt deg/);
+    await expect(trackVideo(clip.videoPath, {})).rejects.toThrow(/swept only \d+° .* give --center x,y \(and the tilt in degrees with --tilt/);
     const r = await trackVideo(clip.videoPath, { centre: { x: 160, y: 120 } });
     expect(r.summary.frames.lost).toBe(0);
     expect(r.summary.warnings.join(' ')).toMatch(/too little to measure the view/);

@@ -46,6 +46,6 @@ describe('viewWithoutPathFit', () => {
     const warnings: string[] = [];
     const v = viewWithoutPathFit(100, 80, { centre: { x_px: 100, y_px: 80 } }, 42, 'The marker', warnings);
     expect(v.view).toEqual({ cx_px: 100, cy_px: 80, axis_ratio: 1, major_axis_deg: 0 });
-    expect(warnings).toEqual(['The marker swept only 42° about --center, too little to measure the view; angles assume a square-on camera (give --tilt deg if it is not).']);
+    expect(warnings).toEqual(['The marker swept only 42° about --center, too little to measure the view; angles assume a square-on camera (give the tilt in degrees with --tilt if it is not).']);
   });
 });
