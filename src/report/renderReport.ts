@@ -9,6 +9,7 @@ import type { ReportData } from './ReportData.js';
 import { comparisonTables, runAnchor } from './renderComparisonSection.js';
 import { chartFigure, renderRunSection } from './renderRunSection.js';
 import { leftOutWords } from '../batch/leftOutWords.js';
+import { sameVideoRuns } from './sameVideoRuns.js';
 
 export interface RenderOptions {
   /** Report title; default names the manifest (or the batch folder). */
@@ -40,6 +41,9 @@ export async function renderReport(data: ReportData, options: RenderOptions = {}
   const warnings: SafeHtml[] = [];
   for (const r of data.runs) if (r.record.status === 'failed') warnings.push(html`<li>Run <a href="#${runAnchor(r.record.run)}">${r.record.run}</a> failed: ${r.record.error ?? 'no reason recorded'}</li>`);
   for (const u of data.unreadable) warnings.push(html`<li>Run folder ${u.run} has a run.json that could not be read (${u.reason}); it is left out.</li>`);
+  for (const group of sameVideoRuns(data.runs.map((r) => r.record))) {
+    warnings.push(html`<li>Runs ${group.join(', ')} measured the same video (identical content) over the same window; the comparison counts that one recording ${group.length} times. Remove the copies from the manifest.</li>`);
+  }
   if (data.left_out.length > 0) warnings.push(html`<li>The output folder also holds ${leftOutWords(data.left_out)}, not in this batch's manifest; left out of this report and summary.csv (delete those folders if they are stale).</li>`);
   const runSections: SafeHtml[] = [];
   for (const r of data.runs) {
