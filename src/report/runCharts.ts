@@ -95,7 +95,7 @@ export function runChartSpecs(run: RunData, options: RunChartOptions = {}): Char
     charts.push({
       id: 'rate',
       title: 'Smoothed rate against time',
-      caption: `Line: smoothed rate from rate.csv; band: its pointwise interval (widest per time bin).${modelText}`,
+      caption: `Line: smoothed rate from rate.csv; band: its pointwise interval (widest per time bin), which describes noise, not smoothing: where the rate bends sharply (a spin-up's start) the true rate can lie outside it.${modelText}`,
       spec: { ...base, layer: layers } as TopLevelSpec,
     });
   }
