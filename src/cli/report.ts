@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { stat } from 'node:fs/promises';
-import { basename, dirname, join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { ensureWritableFolder } from '../ensureWritableFolder.js';
 import { InputError } from '../errors.js';
 
@@ -20,7 +20,9 @@ export function registerReport(program: Command): void {
     .option('--title <text>', 'report title (default names the manifest)')
     .option('--margin <deg_s>', 'equivalence margin in deg/s for "the reverse direction does not turn" (default: the margin the runs were fitted with)')
     .action(async (dir: string, o: ReportCliOptions) => {
-      const [{ rebuildSummary }, { writeReport }] = await Promise.all([import('../batch/rebuildSummary.js'), import('../report/writeReport.js')]);
+      const [{ rebuildSummary }, { writeReport }, { currentManifestRuns }, { leftOutWords }] = await Promise.all([
+        import('../batch/rebuildSummary.js'), import('../report/writeReport.js'), import('../batch/currentManifestRuns.js'), import('../batch/leftOutWords.js'),
+      ]);
       let isDir = false;
       try {
         isDir = (await stat(join(dir, 'runs'))).isDirectory();
@@ -35,12 +37,12 @@ export function registerReport(program: Command): void {
       }
       if (o.out !== undefined && !/\.html?$/i.test(o.out)) throw new InputError(`--out "${o.out}" does not end in .html; give an HTML file name such as report.html`);
       await ensureWritableFolder(o.out !== undefined ? dirname(o.out) : dir, o.out !== undefined ? 'the folder of --out' : 'the batch folder');
-      const { records } = await rebuildSummary(dir);
-      const path = await writeReport(dir, { out: o.out, title: o.title, margin_deg_s: margin });
+      const current = await currentManifestRuns(dir);
+      const { records } = await rebuildSummary(dir, current.only);
+      const path = await writeReport(dir, { out: o.out, title: o.title, margin_deg_s: margin, only: current.only });
       process.stdout.write(`report: ${path} (${records.length} run${records.length === 1 ? '' : 's'})\n`);
-      const manifests = [...new Set(records.flatMap((r) => (r.manifest ? [r.manifest.path] : [])))];
-      if (manifests.length > 1) {
-        process.stderr.write(`note: the runs come from ${manifests.length} manifests (${manifests.map((m) => basename(m)).join(', ')}) and are all pooled; delete stale run folders, or rerun revtrace batch with one manifest\n`);
+      if (current.left_out.length > 0) {
+        process.stderr.write(`note: runs/ also holds ${leftOutWords(current.left_out)} from another manifest, or an earlier version of this one; they are left out of the summary and the report (delete them if they are stale)\n`);
       }
     });
 }

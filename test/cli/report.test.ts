@@ -42,7 +42,7 @@ describe('revtrace report <dir>', () => {
     expect(html).toContain('href="../runs/f-2.0-a/angle.csv"');
   });
 
-  it('says so (and still pools them) when the run folders come from more than one manifest', async () => {
+  it('reports the runs of the current manifest (the newest run record\'s) and names the others as left out', async () => {
     const mixed = await mkdtemp(join(tmpdir(), 'revtrace-cli-report-mixed-'));
     try {
       await writeTestRun(mixed, { run: 'f1', direction: 'forward', setting: 1, rate_deg_s: 30 });
@@ -51,9 +51,13 @@ describe('revtrace report <dir>', () => {
       const record = JSON.parse(await readFile(recordPath, 'utf8')) as { manifest: { path: string } };
       record.manifest.path = '/lab/day2/older.csv';
       await writeFile(recordPath, JSON.stringify(record));
+      // r1's record was written last: its manifest is the current one, and f1 (written before, another manifest) is left out
       const r = revtrace('report', mixed);
       expect(r.status).toBe(0);
-      expect(r.stderr).toBe('note: the runs come from 2 manifests (manifest.csv, older.csv) and are all pooled; delete stale run folders, or rerun revtrace batch with one manifest\n');
+      expect(r.stdout).toContain('(1 run)');
+      expect(r.stderr).toBe('note: runs/ also holds 1 run folder (f1) from another manifest, or an earlier version of this one; they are left out of the summary and the report (delete them if they are stale)\n');
+      const batch = JSON.parse(await readFile(join(mixed, 'batch.json'), 'utf8')) as { left_out: string[]; counts: { runs: number } };
+      expect(batch).toMatchObject({ left_out: ['f1'], counts: { runs: 1 } });
     } finally {
       await rm(mixed, { recursive: true, force: true });
     }
