@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { curveProblem, type CurveModel } from '../../src/fit/fitDynamicsCurve.js';
+import { curveProblem, fitDynamicsCurve, type CurveModel } from '../../src/fit/fitDynamicsCurve.js';
 
 /** Invented test model: y = a·(1 − e^(−b·t)), with its closed-form gradient (calculus, common practice, no source). */
 const saturating: CurveModel = {
@@ -36,5 +36,23 @@ describe('curveProblem', () => {
         expect(jac[t.length + i]).toBeCloseTo(pj[0]! * t[i]! * e, 14);
       }
     }
+  });
+});
+
+describe('fitDynamicsCurve with repeated values (a compressed clip\'s still picture)', () => {
+  // invented series: 40 points of the saturating curve with seeded-looking wiggle, preceded by 25 copies of its first value
+  const tMove = Float64Array.from({ length: 40 }, (_, i) => 2.5 + i / 10);
+  const yMove = tMove.map((v) => 3 * (1 - Math.exp(-0.7 * (v - 2.5))) + 0.02 * Math.sin(13 * v));
+  const t = Float64Array.from([...Array.from({ length: 25 }, (_, i) => i / 10), ...tMove]);
+  const y = Float64Array.from([...Array.from({ length: 25 }, () => yMove[0]!), ...yMove]);
+  const shifted: CurveModel = { k: 2, evaluate: (p, tt, grad) => saturating.evaluate(p, Math.max(0, tt - 2.5), grad) };
+
+  it('leaves out every value equal to the one before it: the same fit as without those rows, with residuals for every row', () => {
+    const withRepeats = fitDynamicsCurve(shifted, t, y, [Float64Array.of(2, 0.5)], { replicates: 0 });
+    const kept = [0, ...Array.from({ length: 40 }, (_, i) => 25 + i)].filter((i, j, all) => j === 0 || y[i] !== y[all[j - 1]!]);
+    const without = fitDynamicsCurve(shifted, Float64Array.from(kept, (i) => t[i]!), Float64Array.from(kept, (i) => y[i]!), [Float64Array.of(2, 0.5)], { replicates: 0 });
+    expect(Array.from(withRepeats.params)).toEqual(Array.from(without.params));
+    expect(Array.from(withRepeats.covariance)).toEqual(Array.from(without.covariance));
+    expect(withRepeats.residuals.length).toBe(65);
   });
 });
