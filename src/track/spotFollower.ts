@@ -38,6 +38,18 @@ export interface SpotFollowerOptions {
 /** Recent positions whose first and last lie less than this far apart per frame between them (px): the marker stands still or creeps (the rotor is at rest, just starting, or nearly at rest). */
 const SLOW_PX_PER_FRAME = 0.5;
 
+/** A step between frame times this many times the usual one is a gap (frames dropped by the camera). */
+const GAP_STEPS = 3;
+
+/** The usual step between the recent accepted frames' times, s (Infinity with fewer than three). */
+function typicalStep(hist: readonly { t: number }[]): number {
+  if (hist.length < 3) return Infinity;
+  const steps: number[] = [];
+  for (let i = Math.max(1, hist.length - 8); i < hist.length; i++) steps.push(hist[i]!.t - hist[i - 1]!.t);
+  steps.sort((a, b) => a - b);
+  return steps[steps.length >> 1]!;
+}
+
 /**
  * Follows one marker spot from frame to frame. The next position is predicted from recent good positions (circle through the first, middle and last of the last seven, constant angular rate at each frame's
  * own time; or straight on from the last step); the spot is searched near the prediction and refused when it lies outside the gate
@@ -66,6 +78,8 @@ export function createSpotFollower(options: SpotFollowerOptions) {
   let start = options.start ?? null;
   /** Where the marker was last accepted, signal-image px: a whole-region search without a prediction takes the spot nearest it. */
   let lastSeen: { x: number; y: number } | null = null;
+  /** Time of the previous frame, s. */
+  let prevT: number | null = null;
 
   /** Whether a spot lies at the marker's steady distance from the known centre (true without a centre or before that distance is known). */
   const onMarkerCircle = (x: number, y: number): boolean =>
@@ -116,13 +130,17 @@ export function createSpotFollower(options: SpotFollowerOptions) {
         hist.length = 0;
         misses.length = 0;
       }
+      // a gap in the frame times (frames the camera dropped): over it the gate's extrapolation is too loose or too
+      // tight, so the marker is looked for over the whole region, nearest where it should be now
+      const gapped = prevT !== null && t_s - prevT > GAP_STEPS * typicalStep(hist);
+      prevT = t_s;
       const preds = predict(t_s);
       const pred = preds.length ? preds[0] : null;
       const typicalArea = areas.length >= 3 ? upperMedian(areas) : 0;
       const spotRadius = typicalArea > 0 ? Math.sqrt(typicalArea / Math.PI) : 0;
       let gate = Infinity;
       let candidate: { x: number; y: number } | null = pred;
-      if (pred && hist.length >= 3) {
+      if (pred && hist.length >= 3 && !gapped) {
         const rms = misses.length ? Math.sqrt(misses.reduce((s, v) => s + v * v, 0) / misses.length) : minGate;
         // a rate error grows with the distance extrapolated: allow 5 % of it, 15 % beyond one frame step
         const c = hist[hist.length - 1];
@@ -131,7 +149,7 @@ export function createSpotFollower(options: SpotFollowerOptions) {
         const ahead = c.t > b.t ? (t_s - c.t) / (c.t - b.t) : 1;
         gate = Math.max(minGate, gateFactor * rms) * (1 + lostRun) + stepPx * (0.05 * ahead + 0.15 * Math.max(0, ahead - 1));
       }
-      if (!candidate || hist.length < 3) {
+      if (!candidate || hist.length < 3 || gapped) {
         // search the whole region (start, or few frames of history): take the spot nearest the last position, else the biggest
         const all = findSpots(signal, width, region);
         if (all.spots.length === 0) return lost('lost:no-blob');
@@ -184,10 +202,13 @@ export function createSpotFollower(options: SpotFollowerOptions) {
       const radius = centre ? Math.hypot(spot.x_px - centre.x_px, spot.y_px - centre.y_px) : Number.NaN;
       if (lostRun > 0 && !onMarkerCircle(spot.x_px, spot.y_px)) return lost('lost:gate');
       // accepted
-      if (pred && hist.length >= 3 && lostRun === 0) {
+      if (pred && hist.length >= 3 && lostRun === 0 && !gapped) {
         misses.push(miss);
         if (misses.length > 30) misses.shift();
       }
+      // the step across a gap is not a frame step (a fast rotor turns more than half a turn over it, and the next
+      // prediction would run backwards): the motion is learned afresh from here
+      if (gapped) hist.length = 0;
       hist.push({ t: t_s, x: spot.x_px, y: spot.y_px });
       lastSeen = { x: spot.x_px, y: spot.y_px };
       if (hist.length > 7) hist.shift();

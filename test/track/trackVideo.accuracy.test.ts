@@ -182,3 +182,17 @@ describe('trackVideo on a spin-up from rest', () => {
     expect(rms(err)).toBeLessThan(0.05);
   });
 });
+
+describe('trackVideo across a gap in the frame times', () => {
+  it('picks the marker up in the first frame after 25 dropped frames at 300 deg/s (it turned 250° meanwhile)', async () => {
+    // before, the step across the gap was taken for one frame step: the next prediction ran backwards and 15 frames were lost
+    const clip = await renderClip(
+      { seed: 4, width_px: 320, height_px: 240, fps: 30, duration_s: 4, profile: { kind: 'steady', rate_deg_s: 300 }, realism: { noise_sigma: 2, crf: 23, timing: { dropped_frames: Array.from({ length: 25 }, (_, i) => 30 + i) } } },
+      join(dir, 'gap.mp4'),
+    );
+    const r = await trackVideo(clip.videoPath, { roi: [70, 30, 180, 180] });
+    expect(r.summary.frames.lost).toBe(0);
+    const err = offsetRemovedErrors(r.series.frame, r.series.angle_deg, clip.truth.angle_deg);
+    expect(Math.max(...err.map(Math.abs))).toBeLessThan(0.3);
+  });
+});
