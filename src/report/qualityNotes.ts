@@ -58,7 +58,7 @@ export function qualityNotes(run: RunData): QualityNote[] {
   }
   if (fit) {
     const r1 = fit.diagnostics.residual_autocorrelation[0];
-    if (r1 !== undefined && r1 > 0.5) notes.push({ label: 'correlated residuals', words: `Residuals are strongly correlated from frame to frame (lag-1 correlation ${formatFixed(r1, 2)}): the rotor does not turn perfectly evenly, the marker wobbles${fit.model === 'steady' ? '' : ', or the model does not follow the data'}; the intervals allow for correlated noise (see Methods).`, serious: false });
+    if (r1 !== undefined && r1 > 0.5) notes.push({ label: 'correlated residuals', words: `Residuals are strongly correlated from frame to frame (lag-1 correlation ${formatFixed(r1, 2)}): ${fit.model === 'steady' ? 'the rotor does not turn perfectly evenly or the marker wobbles' : 'the rotor does not turn perfectly evenly, the marker wobbles, or the model does not follow the data'}; the intervals allow for correlated noise (see Methods).`, serious: false });
     if (fit.selection?.ambiguous) notes.push({ label: 'model choice unclear', words: 'Two models describe the angle about equally well; the chosen one is shown, but the other is nearly as good.', serious: true });
     const z = fit.steady?.zero_test;
     if (z && fit.steady && z.p_value >= 1 - fit.steady.rate_deg_s.level) {
