@@ -1,7 +1,7 @@
 import { InputError } from '../errors.js';
 import { SOFTWARE } from '../version.js';
 import { hashFile } from '../video/hashFile.js';
-import { checkNotCutShort, probeVideoHeader, type VideoHeader } from '../video/probeVideo.js';
+import { probeVideoHeader, type VideoHeader } from '../video/probeVideo.js';
 import { readFrames } from '../video/readFrames.js';
 import { frameTiming } from '../video/frameTiming.js';
 import type { AngleSeries } from './AngleSeries.js';
@@ -209,8 +209,6 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
       const window = options.from_s !== undefined || options.to_s !== undefined ? ' in the window --from/--to' : '';
       throw new InputError(`${path} has only ${store.n} frame${store.n === 1 ? '' : 's'}${window}; tracking needs at least ${MIN_FRAMES}, so give a longer clip or window`);
     }
-    // a whole clip read: fewer frames than its index lists means the file was cut short (checked where the index says)
-    if (options.from_s === undefined && options.to_s === undefined) checkNotCutShort(path, store.n, header.declared_frame_count);
     const n = store.n;
     const candidates = !multi ? follower?.paths : null;
     if (candidates) {

@@ -152,9 +152,13 @@ const CUT_SHORT_SLACK = 3;
 
 /** InputError when a file holds clearly fewer frames than its index lists: an interrupted copy or recording. */
 export function checkNotCutShort(path: string, frames_found: number, declared_frame_count: number | null): void {
-  if (declared_frame_count !== null && frames_found < declared_frame_count - CUT_SHORT_SLACK) {
-    throw new InputError(`${path} is cut short: its index lists ${declared_frame_count} frames but only ${frames_found} can be read (an interrupted copy or recording); copy or export it again.`);
-  }
+  if (declared_frame_count !== null && frames_found < declared_frame_count - CUT_SHORT_SLACK) throw cutShortError(path, frames_found, declared_frame_count);
+}
+
+/** The sentence for a file whose data ends before its index says (ffmpeg's "partial file"), with the counts when known. */
+export function cutShortError(path: string, frames_found: number, declared_frame_count: number | null): InputError {
+  const counts = declared_frame_count !== null && frames_found < declared_frame_count ? `its index lists ${declared_frame_count} frames but only ${frames_found} can be read` : 'its data ends before its index says';
+  return new InputError(`${path} is cut short: ${counts} (an interrupted copy or recording); copy or export it again.`);
 }
 
 /**

@@ -2,7 +2,7 @@ import { InputError } from '../errors.js';
 import { FfmpegError } from './FfmpegError.js';
 import type { Frame } from './Frame.js';
 import { locateFfmpeg } from './locateTools.js';
-import { checkNotCutShort, probeVideoHeader } from './probeVideo.js';
+import { cutShortError, probeVideoHeader } from './probeVideo.js';
 import type { VideoHeader } from './probeVideo.js';
 import { runTool } from './runTool.js';
 
@@ -39,6 +39,9 @@ export interface ReadFramesOptions {
    */
   reuse_buffers?: boolean;
 }
+
+/** ffmpeg's word for a file whose data ends before its index (MP4) says it should. */
+const PARTIAL_FILE = /partial file/;
 
 /**
  * Matches the per-frame line of `setpts=print(PTS)`: the frame's timestamp printed by ffmpeg's expression
@@ -115,6 +118,8 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
   const times: number[] = []; // printed times not yet paired with a frame (a handful at most)
   let timesEnded = false;
   let wake: (() => void) | undefined;
+  /** ffmpeg said the file's data ends before its index does ("partial file"), even when it decoded what was there without an error. */
+  let partialFile = false;
   const onStderrLine = (line: string): boolean => {
     const m = PTS_LINE.exec(line);
     if (m) {
@@ -122,6 +127,7 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
       wake?.();
       return true;
     }
+    if (PARTIAL_FILE.test(line)) partialFile = true;
     return false;
   };
   const onStderrEnd = (): void => { timesEnded = true; wake?.(); };
@@ -172,9 +178,12 @@ export async function* readFrames(path: string, options: ReadFramesOptions = {})
     if (filled !== 0) {
       throw new FfmpegError(`ffmpeg stopped in the middle of frame ${decoded} of ${path}.`, { file: path, exitCode: 0, stderrTail: '' });
     }
+    // a clip cut short with its index at the front decodes to the end of its data without an error: only this says so
+    // (a clip trimmed without re-encoding lists the frames it drops too, but its data is whole)
+    if (partialFile) throw cutShortError(path, decoded, header.declared_frame_count);
   } catch (err) {
-    // ffmpeg stopping at a "partial file" in a file whose index lists more frames: say what happened to the file, not to ffmpeg
-    if (err instanceof FfmpegError && /partial file/.test(err.stderrTail)) checkNotCutShort(path, decoded, header.declared_frame_count);
+    // ffmpeg stopping at a "partial file": say what happened to the file, not to ffmpeg
+    if (err instanceof FfmpegError && (partialFile || PARTIAL_FILE.test(err.stderrTail))) throw cutShortError(path, decoded, header.declared_frame_count);
     throw err;
   } finally {
     await run.return(undefined);

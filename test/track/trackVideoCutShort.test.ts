@@ -1,33 +1,43 @@
-// A clip that decodes to the end without an error but holds fewer frames than its index lists (cut short with the
-// index at the front) is refused rather than tracked as if it were whole.
+// A clip cut short with its index at the front decodes to the end of its data without an error; it is refused
+// rather than tracked as if whole. A clip trimmed without re-encoding also lists more frames than it shows (the
+// trimmed ones are marked to be dropped), but it is whole: it is tracked. Fixtures: our renderer, cut and trimmed
+// with ffmpeg's own stream copy.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtemp, rm } from 'node:fs/promises';
+import { mkdtemp, readFile, rm, writeFile } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { renderClip } from '../../src/synth/renderClip.js';
 import { trackVideo } from '../../src/track/trackVideo.js';
 import { probeVideoHeader } from '../../src/video/probeVideo.js';
 import { InputError } from '../../src/errors.js';
+import { ffmpeg } from '../video/referenceTools.js';
 
 let dir: string;
+let whole: string;
 beforeAll(async () => {
   dir = await mkdtemp(join(tmpdir(), 'revtrace-cutshort-'));
+  whole = (await renderClip({ seed: 3, duration_s: 3, fps: 30, profile: { kind: 'steady', rate_deg_s: 60 } }, join(dir, 'whole.mp4'))).videoPath; // lossless
 });
 afterAll(async () => {
   await rm(dir, { recursive: true, force: true });
 });
 
-describe('trackVideo on a clip whose index lists more frames than it holds', () => {
-  it('refuses the whole clip with one sentence, but tracks a window of it (--from/--to read only part anyway)', async () => {
-    const clip = await renderClip({ seed: 3, duration_s: 1, fps: 30, profile: { kind: 'steady', rate_deg_s: 200 } }, join(dir, 'c.mp4'));
-    const header = await probeVideoHeader(clip.videoPath);
-    expect(header.declared_frame_count).toBe(30); // the MP4 sample table of a 1 s clip at 30 fps
-    // the index of a clip cut short still lists every frame: stand in for it by a header that lists 90
-    const listed = { ...header, declared_frame_count: 90 };
-    const err = await trackVideo(clip.videoPath, { header: listed, centre: { x: 160, y: 120 } }).catch((e: unknown) => e);
+describe('trackVideo on clips whose index lists more frames than they show', () => {
+  it('refuses a clip cut in half after its index was moved to the front, with one sentence', async () => {
+    ffmpeg(['-i', whole, '-c', 'copy', '-movflags', '+faststart', join(dir, 'front.mp4')]);
+    const bytes = await readFile(join(dir, 'front.mp4'));
+    await writeFile(join(dir, 'cut.mp4'), bytes.subarray(0, Math.floor(bytes.length / 2)));
+    const err = await trackVideo(join(dir, 'cut.mp4'), { centre: { x: 160, y: 120 } }).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(InputError);
-    expect((err as Error).message).toBe(`${clip.videoPath} is cut short: its index lists 90 frames but only 30 can be read (an interrupted copy or recording); copy or export it again.`);
-    const part = await trackVideo(clip.videoPath, { header: listed, centre: { x: 160, y: 120 }, from_s: 0, to_s: 0.5 });
-    expect(part.series.frame.length).toBe(15);
+    expect((err as Error).message).toMatch(/cut\.mp4 is cut short: its index lists 90 frames but only \d\d can be read \(an interrupted copy or recording\); copy or export it again\.$/);
+  });
+
+  it('tracks a clip trimmed without re-encoding (its index still lists the frames cut off the front)', async () => {
+    ffmpeg(['-ss', '1', '-i', whole, '-c', 'copy', join(dir, 'trimmed.mp4')]);
+    const header = await probeVideoHeader(join(dir, 'trimmed.mp4'));
+    const r = await trackVideo(join(dir, 'trimmed.mp4'), { centre: { x: 160, y: 120 } });
+    expect(header.declared_frame_count).toBeGreaterThan(r.series.frame.length);
+    expect(r.series.frame.length).toBeGreaterThanOrEqual(59);
+    expect(r.summary.frames.lost).toBe(0);
   });
 });
