@@ -1,26 +1,33 @@
-import { stat } from 'node:fs/promises';
-import { join } from 'node:path';
+import { readFile } from 'node:fs/promises';
+import { parse } from 'csv-parse/sync';
 import { readRunRecords } from './rebuildSummary.js';
 
+/** The run ids a manifest file lists now (its "run" column), or null when it cannot be read as one. */
+async function listedRuns(path: string): Promise<Set<string> | null> {
+  try {
+    const rows = parse(await readFile(path), { bom: true, relax_column_count: true, skip_empty_lines: true, comment: '#', comment_no_infix: true }) as string[][];
+    const column = (rows[0] ?? []).findIndex((h) => h.trim().toLowerCase() === 'run');
+    if (column < 0) return null;
+    return new Set(rows.slice(1).map((r) => (r[column] ?? '').trim()).filter((id) => id !== ''));
+  } catch {
+    return null;
+  }
+}
+
 /**
- * The runs of a batch folder that belong to its current manifest: when the run records name more than one
- * manifest (another file, or an earlier version of the same one — a row since deleted or renamed), the current
- * one is that of the most recently written run.json (a batch rewrites the record of every run it keeps, cached
- * or not, when its manifest changed). `only` is undefined when there is nothing to leave out; records that name
- * no manifest always count.
+ * The runs of a batch folder that its manifests still list: each run record names the manifest it came from, and
+ * that file, read as it is now, lists the runs that belong (shards of one manifest all do, whichever of them ran
+ * last; a row since deleted, or a run since renamed, does not). Runs whose manifest cannot be read (a results folder
+ * copied elsewhere) are kept. `only` is undefined when nothing is left out.
  */
 export async function currentManifestRuns(outDir: string): Promise<{ only: Set<string> | undefined; left_out: string[] }> {
   const { records } = await readRunRecords(outDir);
-  const versionOf = (r: (typeof records)[number]) => (r.manifest ? `${r.manifest.path}\n${r.manifest.sha256}` : null);
-  const versions = new Set(records.map(versionOf).filter((v): v is string => v !== null));
-  if (versions.size < 2) return { only: undefined, left_out: [] };
-  let newest = { version: '', mtime: -Infinity };
-  for (const r of records) {
-    const version = versionOf(r);
-    if (version === null) continue;
-    const mtime = (await stat(join(outDir, 'runs', r.run, 'run.json'))).mtimeMs;
-    if (mtime > newest.mtime) newest = { version, mtime };
-  }
-  const only = new Set(records.filter((r) => versionOf(r) === null || versionOf(r) === newest.version).map((r) => r.run));
-  return { only, left_out: records.filter((r) => !only.has(r.run)).map((r) => r.run).sort() };
+  const lists = new Map<string, Set<string> | null>();
+  for (const r of records) if (r.manifest && !lists.has(r.manifest.path)) lists.set(r.manifest.path, await listedRuns(r.manifest.path));
+  const belongs = (r: (typeof records)[number]) => {
+    const ids = r.manifest ? lists.get(r.manifest.path) : null;
+    return !ids || ids.has(r.run);
+  };
+  const left_out = records.filter((r) => !belongs(r)).map((r) => r.run).sort();
+  return { only: left_out.length > 0 ? new Set(records.filter(belongs).map((r) => r.run)) : undefined, left_out };
 }

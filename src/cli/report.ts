@@ -42,7 +42,7 @@ export function registerReport(program: Command): void {
       const path = await writeReport(dir, { out: o.out, title: o.title, margin_deg_s: margin, only: current.only });
       process.stdout.write(`report: ${path} (${records.length} run${records.length === 1 ? '' : 's'})\n`);
       if (current.left_out.length > 0) {
-        process.stderr.write(`note: runs/ also holds ${leftOutWords(current.left_out)} from another manifest, or an earlier version of this one; they are left out of the summary and the report (delete them if they are stale)\n`);
+        process.stderr.write(`note: runs/ also holds ${leftOutWords(current.left_out)} that the manifest no longer lists; they are left out of the summary and the report (delete them if they are stale)\n`);
       }
     });
 }

@@ -42,22 +42,25 @@ describe('revtrace report <dir>', () => {
     expect(html).toContain('href="../runs/f-2.0-a/angle.csv"');
   });
 
-  it('reports the runs of the current manifest (the newest run record\'s) and names the others as left out', async () => {
+  it('reports the runs its manifest still lists, whichever ran last, and names the others as left out', async () => {
     const mixed = await mkdtemp(join(tmpdir(), 'revtrace-cli-report-mixed-'));
     try {
-      await writeTestRun(mixed, { run: 'f1', direction: 'forward', setting: 1, rate_deg_s: 30 });
-      await writeTestRun(mixed, { run: 'r1', direction: 'reverse', setting: 1, rate_deg_s: -1 });
-      const recordPath = join(mixed, 'runs', 'r1', 'run.json');
-      const record = JSON.parse(await readFile(recordPath, 'utf8')) as { manifest: { path: string } };
-      record.manifest.path = '/lab/day2/older.csv';
-      await writeFile(recordPath, JSON.stringify(record));
-      // r1's record was written last: its manifest is the current one, and f1 (written before, another manifest) is left out
+      // the manifest now lists f1 and r1 (r1 rerun after an edit); f-old was a row since renamed
+      const manifest = join(mixed, 'day.csv');
+      await writeFile(manifest, 'video,run,direction\nclips/f1.mp4,f1,forward\nclips/r1.mp4,r1,reverse\n');
+      for (const [run, rate] of [['f-old', 30], ['f1', 30], ['r1', -1]] as const) {
+        await writeTestRun(mixed, { run, direction: rate > 0 ? 'forward' : 'reverse', setting: 1, rate_deg_s: rate });
+        const recordPath = join(mixed, 'runs', run, 'run.json');
+        const record = JSON.parse(await readFile(recordPath, 'utf8')) as { manifest: { path: string; sha256: string } };
+        record.manifest = { path: manifest, sha256: run === 'r1' ? 'bb'.repeat(32) : 'aa'.repeat(32) }; // r1 from the edited version
+        await writeFile(recordPath, JSON.stringify(record));
+      }
       const r = revtrace('report', mixed);
       expect(r.status).toBe(0);
-      expect(r.stdout).toContain('(1 run)');
-      expect(r.stderr).toBe('note: runs/ also holds 1 run folder (f1) from another manifest, or an earlier version of this one; they are left out of the summary and the report (delete them if they are stale)\n');
+      expect(r.stdout).toContain('(2 runs)');
+      expect(r.stderr).toBe('note: runs/ also holds 1 run folder (f-old) that the manifest no longer lists; they are left out of the summary and the report (delete them if they are stale)\n');
       const batch = JSON.parse(await readFile(join(mixed, 'batch.json'), 'utf8')) as { left_out: string[]; counts: { runs: number } };
-      expect(batch).toMatchObject({ left_out: ['f1'], counts: { runs: 1 } });
+      expect(batch).toMatchObject({ left_out: ['f-old'], counts: { runs: 2 } });
     } finally {
       await rm(mixed, { recursive: true, force: true });
     }
