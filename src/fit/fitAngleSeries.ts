@@ -5,6 +5,7 @@ import { fitSpinUp } from './spinUp.js';
 import { fitCoastDown } from './coastDown.js';
 import { chooseModel } from './chooseModel.js';
 import { curveMisfit } from './curveMisfit.js';
+import { repeatFreeRows } from './repeatFreeRows.js';
 import { checkOptionNames } from '../checkOptionNames.js';
 import { angleNoiseCovariance } from './angleNoiseModel.js';
 import { smoothRate } from '../signal/smoothRate.js';
@@ -225,7 +226,11 @@ export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}
   for (const e of residuals) rss += e * e;
   const residualAutocorrelation = autocorrelation(residuals, 5);
   if (chosen !== 'steady') {
-    const misfit = curveMisfit(chosen === 'spinup' ? 'spin-up' : 'coast-down', Math.sqrt(rss / n), residualAutocorrelation[0] ?? 0, y);
+    // judged on the rows the curve was fitted to: repeats of a still picture carry no noise (repeatFreeRows)
+    const rows = repeatFreeRows(y);
+    const kept = Float64Array.from(rows, (i) => residuals[i]!);
+    const keptRms = Math.sqrt(kept.reduce((a, e) => a + e * e, 0) / Math.max(1, kept.length));
+    const misfit = curveMisfit(chosen === 'spinup' ? 'spin-up' : 'coast-down', keptRms, autocorrelation(kept, 1)[0] ?? 0, Float64Array.from(rows, (i) => y[i]!));
     if (misfit) warnings.push(misfit);
   }
   const methods = [

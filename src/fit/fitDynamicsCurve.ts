@@ -14,6 +14,7 @@
  * Our coverage study (bench/spinUpCoverage.mjs) motivated step 4: without it, 95% intervals covered about 90%
  * of the time on 360-point series with AR(1) noise of lag-1 correlation 0.8.
  */
+import { repeatFreeRows } from './repeatFreeRows.js';
 import { levenbergMarquardt, type LeastSquaresProblem, type LevenbergMarquardtResult } from './levenbergMarquardt.js';
 import { chooseAutoregressiveOrder, fitAutoregression, whiten } from './autoregressiveErrors.js';
 import { chooseBlockLength, circularBlockSampler, monteCarloCriticalValue } from './blockBootstrap.js';
@@ -177,8 +178,7 @@ const MIN_AFTER_REPEATS = 20;
  * @param y observed values (angle, deg)
  */
 export function fitDynamicsCurve(model: CurveModel, t: Float64Array, y: Float64Array, starts: Float64Array[], options: DynamicsCurveOptions = {}): DynamicsCurveFit {
-  const keep: number[] = [];
-  for (let i = 0; i < y.length; i++) if (i === 0 || y[i] !== y[i - 1]) keep.push(i);
+  const keep = repeatFreeRows(y);
   if (keep.length === y.length || keep.length < MIN_AFTER_REPEATS) return fitDistinctPoints(model, t, y, starts, options);
   const fit = fitDistinctPoints(model, Float64Array.from(keep, (i) => t[i]!), Float64Array.from(keep, (i) => y[i]!), starts, options);
   const residuals = new Float64Array(y.length);

@@ -30,4 +30,22 @@ describe('curveMisfit through fitAngleSeries', () => {
     expect(atCut.report.spindown!.initial_rate_deg_s.ci[0]).toBeLessThan(100);
     expect(atCut.report.spindown!.initial_rate_deg_s.ci[1]).toBeGreaterThan(100);
   });
+
+  it('does not call a good spin-up a misfit when a compressed clip repeats one angle through 5 s at rest', () => {
+    // invented: 150 identical rows at rest (the codec's still picture), then 90 deg/s·(t − 5 − 0.5·(1 − e^(−(t−5)/0.5)))
+    // with autocorrelated noise (AR(1), φ = 0.9, sd 0.05°) — before, the repeats made the noise look like zero
+    for (const seed of [1, 2, 3]) {
+      const normal = normalSource(seed);
+      let ar = 0;
+      const t_s = Float64Array.from({ length: 300 }, (_, i) => i / 30);
+      const angle_deg = t_s.map((t) => {
+        if (t < 5) return 12.5;
+        ar = 0.9 * ar + 0.05 * Math.sqrt(1 - 0.81) * normal();
+        const d = t - 5;
+        return 12.5 + 90 * (d - 0.5 * (1 - Math.exp(-d / 0.5))) + ar;
+      });
+      const f = fitAngleSeries({ t_s, angle_deg }, { model: 'spinup' });
+      expect(f.report.diagnostics.warnings.filter((w) => /does not describe this window/.test(w)), `seed ${seed}`).toEqual([]);
+    }
+  });
 });

@@ -53,6 +53,14 @@ describe('fitDynamicsCurve with repeated values (a compressed clip\'s still pict
     const without = fitDynamicsCurve(shifted, Float64Array.from(kept, (i) => t[i]!), Float64Array.from(kept, (i) => y[i]!), [Float64Array.of(2, 0.5)], { replicates: 0 });
     expect(Array.from(withRepeats.params)).toEqual(Array.from(without.params));
     expect(Array.from(withRepeats.covariance)).toEqual(Array.from(without.covariance));
-    expect(withRepeats.residuals.length).toBe(65);
+    // every row gets its residual from the fitted curve, the left-out ones too, and rss sums them all
+    const grad = new Float64Array(2);
+    let rss = 0;
+    for (let i = 0; i < 65; i++) {
+      const e = y[i]! - shifted.evaluate(withRepeats.params, t[i]!, grad);
+      expect(withRepeats.residuals[i]).toBeCloseTo(e, 12);
+      rss += e * e;
+    }
+    expect(withRepeats.rss).toBeCloseTo(rss, 12);
   });
 });
