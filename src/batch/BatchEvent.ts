@@ -8,7 +8,7 @@ export type BatchEvent =
   | { type: 'cached'; run: string }
   | { type: 'start'; run: string; row: number }
   | { type: 'progress'; run: string; frames: number; t_s: number; duration_s: number }
-  | { type: 'done'; run: string; elapsed_s: number; model: string | null; rate_deg_s: number | null; lo_deg_s: number | null; hi_deg_s: number | null }
+  | { type: 'done'; run: string; elapsed_s: number; model: string | null; rate_deg_s: number | null; se_deg_s: number | null; lo_deg_s: number | null; hi_deg_s: number | null }
   | { type: 'failed'; run: string; error: string }
   | { type: 'summary'; summary_csv: string; batch_json: string; runs: number }
   | { type: 'interrupted'; unfinished: string[] };

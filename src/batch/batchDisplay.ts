@@ -37,7 +37,7 @@ export function describeEvent(e: BatchEvent): string | null {
     case 'start': return `${e.run}: started`;
     case 'progress': return null;
     case 'done': {
-      const d = decimalsToShow(e.lo_deg_s !== null && e.hi_deg_s !== null ? Math.abs(e.hi_deg_s - e.lo_deg_s) / 2 : NaN, 12, 3);
+      const d = decimalsToShow(e.se_deg_s ?? Number.NaN, 12, 3); // two significant digits of the standard error, as the report shows it
       const fixed = (x: number | null) => (x === null || !Number.isFinite(x) ? '?' : x.toFixed(d));
       const rate = e.rate_deg_s === null ? '' : `: ${e.model}, ${fixed(e.rate_deg_s)} deg/s (${fixed(e.lo_deg_s)} to ${fixed(e.hi_deg_s)})`;
       return `${e.run}: done in ${seconds(e.elapsed_s)}${rate}`;

@@ -203,7 +203,7 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
       emit({ type: 'failed', run: r.run, error });
     } else {
       const rate = headlineRate(record);
-      emit({ type: 'done', run: r.run, elapsed_s: record.elapsed_s ?? 0, model: record.fit?.model ?? null, rate_deg_s: rate?.deg_s.value ?? null, lo_deg_s: rate?.deg_s.ci[0] ?? null, hi_deg_s: rate?.deg_s.ci[1] ?? null });
+      emit({ type: 'done', run: r.run, elapsed_s: record.elapsed_s ?? 0, model: record.fit?.model ?? null, rate_deg_s: rate?.deg_s.value ?? null, se_deg_s: rate?.deg_s.se ?? null, lo_deg_s: rate?.deg_s.ci[0] ?? null, hi_deg_s: rate?.deg_s.ci[1] ?? null });
     }
   };
 
@@ -247,5 +247,11 @@ export async function runBatch(manifestPath: string, options: BatchOptions = {})
  * never leaves a summary or report listing as ok a run whose files are gone (the next complete batch writes them again).
  */
 async function dropStaleSummary(outDir: string): Promise<void> {
-  for (const name of ['summary.csv', 'batch.json', 'report.html']) await rm(join(outDir, name), { force: true });
+  for (const name of ['summary.csv', 'batch.json', 'report.html']) {
+    try {
+      await rm(join(outDir, name), { force: true });
+    } catch (err) {
+      throw new InputError(`cannot remove the old ${name} in ${outDir} before redoing runs (${(err as NodeJS.ErrnoException).code ?? (err as Error).message}); move it away and run again`, { cause: err });
+    }
+  }
 }

@@ -26,10 +26,9 @@ function numberOption(name: string, text: string | undefined): number | undefine
   return v;
 }
 
-/** An estimate with its interval, to as many decimals as the interval's half-width needs for two significant digits. */
+/** An estimate with its interval, to as many decimals as two significant digits of its standard error need (as the report shows it). */
 function show(e: Estimate, unit: string): string {
-  const half = Math.abs(e.ci[1] - e.ci[0]) / 2;
-  const decimals = decimalsToShow(half, 12, 4);
+  const decimals = decimalsToShow(e.se, 12, 4);
   const p = (v: number): string => v.toFixed(decimals);
   return `${p(e.value)} ${unit} (${Math.round(e.level * 100)}% CI ${p(e.ci[0])} to ${p(e.ci[1])})`;
 }

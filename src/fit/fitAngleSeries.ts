@@ -128,6 +128,11 @@ const METHOD_NONLINEAR = 'spin-up and coast-down by Levenberg–Marquardt least 
 const METHOD_NOT_CHOSEN = 'intervals of a spin-up or coast-down model that auto did not choose are plain Student-t, without the bootstrap calibration';
 const METHOD_RATE = 'rate curve by local quadratic least squares in real time (Savitzky–Golay on non-uniform frames)';
 
+/** Every option name fitAngleSeries reads. */
+const FIT_OPTION_NAMES: readonly (keyof FitOptions)[] = ['model', 'from_s', 'to_s', 'level', 'margin_deg_s', 'seed', 'smoothing_half_width_s'];
+/** Spellings people reach for, and the option meant. */
+const FIT_OPTION_SPELLINGS: Record<string, keyof FitOptions> = { from: 'from_s', to: 'to_s', margin: 'margin_deg_s', confidence: 'level', smoothing: 'smoothing_half_width_s', half_width_s: 'smoothing_half_width_s' };
+
 /**
  * Fits an angle series: the requested model ('steady', 'spinup', 'spindown', or 'auto' = all three, chosen
  * by chooseModel) over a time window, with diagnostics, plus the smoothed rate curve with a pointwise band.
@@ -135,11 +140,6 @@ const METHOD_RATE = 'rate curve by local quadratic least squares in real time (S
  * With 'auto' every model that could be fitted is reported; `model` names the chosen one.
  * @throws InputError for bad input (one sentence), FitError when the requested model cannot be fitted
  */
-/** Every option name fitAngleSeries reads. */
-const FIT_OPTION_NAMES: readonly (keyof FitOptions)[] = ['model', 'from_s', 'to_s', 'level', 'margin_deg_s', 'seed', 'smoothing_half_width_s'];
-/** Spellings people reach for, and the option meant. */
-const FIT_OPTION_SPELLINGS: Record<string, keyof FitOptions> = { from: 'from_s', to: 'to_s', margin: 'margin_deg_s', confidence: 'level', smoothing: 'smoothing_half_width_s', half_width_s: 'smoothing_half_width_s' };
-
 export function fitAngleSeries(input: AngleSeriesInput, options: FitOptions = {}): FitResult {
   checkOptionNames('fitAngleSeries', options, FIT_OPTION_NAMES, FIT_OPTION_SPELLINGS);
   const model = options.model ?? 'steady';

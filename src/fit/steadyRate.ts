@@ -401,9 +401,9 @@ export function segmentHomogeneityP(fits: readonly { slope: number; se: number; 
  * fit is the efficient one, so Var(d) = Var(ω̄_within) − Var(ω̂_whole) (Hausman 1978, Econometrica 46:1251; from
  * memory), with model-based variances scaled by the segments' pooled jackknife factor ĉ and referred to F(1, ν) as
  * in segmentHomogeneityP. A jump of the angle between segments (a splice, a skipped turn, a tracking jump) leaves
- * every segment's slope alone but moves the whole-window slope. Null when the variances are not usable.
+ * every segment's slope alone but moves the whole-window slope. Also returns ω̄_within, deg/s. Null when the variances are not usable.
  */
-export function withinVersusWholeP(whole: { slope: number; modelSe: number }, fits: readonly { slope: number; se: number; df: number; modelSe: number }[]): number | null {
+export function withinVersusWholeP(whole: { slope: number; modelSe: number }, fits: readonly { slope: number; se: number; df: number; modelSe: number }[]): { p: number; within_deg_s: number } | null {
   if (fits.length < 2 || !fits.every((f) => f.se > 0 && Number.isFinite(f.se) && f.df > 0 && f.modelSe > 0 && Number.isFinite(f.modelSe))) return null;
   let sw = 0;
   let swb = 0;
@@ -422,7 +422,7 @@ export function withinVersusWholeP(whole: { slope: number; modelSe: number }, fi
   const vDiff = Math.max(vWithin - whole.modelSe ** 2, 0.1 * vWithin) * (ratio / nu);
   if (!(vDiff > 0) || !Number.isFinite(vDiff)) return null;
   const stat = (within - whole.slope) ** 2 / vDiff;
-  return 1 - jStat.centralF.cdf(stat, 1, nu);
+  return { p: 1 - jStat.centralF.cdf(stat, 1, nu), within_deg_s: within };
 }
 
 /** True when y is a straight line in t to within rounding (largest least-squares residual ≤ 1e-9 of the angle span, deg). */
@@ -511,8 +511,7 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
   const duration = t[n - 1]!;
   let segments: SegmentRate[] = [];
   let segmentP: number | null = null;
-  let jumpP: number | null = null;
-  let withinRate = Number.NaN;
+  let jump: { p: number; within_deg_s: number } | null = null;
   const minRows = 10;
   for (; k >= 1; k--) {
     const bounds: number[] = [0];
@@ -535,8 +534,7 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
     }));
     if (k > 1) {
       segmentP = segmentHomogeneityP(fits);
-      jumpP = withinVersusWholeP(whole, fits);
-      withinRate = fits.reduce((a, f) => a + f.slope / f.modelSe ** 2, 0) / fits.reduce((a, f) => a + 1 / f.modelSe ** 2, 0);
+      jump = withinVersusWholeP(whole, fits);
     }
     break;
   }
@@ -561,9 +559,9 @@ export function fitSteadyRate(t_s: Float64Array, angle_deg: Float64Array, option
       `the segment rates differ more than the noise explains (p ${segmentP < 0.001 ? '< 0.001' : `= ${segmentP.toPrecision(2)}`}): the rate is not steady across the window, so the interval describes the window's mean rate`,
     );
   }
-  if (jumpP !== null && jumpP < 0.001) {
+  if (jump !== null && jump.p < 0.001) {
     warnings.push(
-      `the rate over the whole window (${whole.slope.toPrecision(4)} deg/s) disagrees with the rate inside its segments (${withinRate.toPrecision(4)} deg/s; p ${jumpP < 1e-6 ? '< 1e-6' : `= ${jumpP.toPrecision(2)}`}): the angle jumps somewhere (a splice in the clip, a skipped turn, a tracking jump), so the interval does not describe the rotor; look at the angle plot and preview.png`,
+      `the rate over the whole window (${whole.slope.toPrecision(4)} deg/s) disagrees with the rate inside its segments (${jump.within_deg_s.toPrecision(4)} deg/s; p ${jump.p < 1e-6 ? '< 1e-6' : `= ${jump.p.toPrecision(2)}`}): the angle jumps somewhere (a splice in the clip, a skipped turn, a tracking jump), so the interval does not describe the rotor; look at the angle plot and preview.png`,
     );
   }
   const result: SteadyResult = {

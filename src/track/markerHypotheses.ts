@@ -33,17 +33,17 @@ export function createMarkerHypotheses(options: { region: Window; centre?: { x_p
     get paths(): MarkerPathStore | null {
       return paths;
     },
-    /** Spots of the first frame with spots that were not followed (beyond MOST_CANDIDATES). */
+    /** Spots of the first frame with spots that could have been the marker but were not followed (beyond MOST_CANDIDATES). */
     get unfollowed(): number {
       return unfollowed;
     },
     /** Feeds one frame's signal image (width px per row) at t_s to every candidate. */
     update(signal: Uint8Array, width: number, t_s: number, place: PlaceReading): void {
       if (!paths) {
-        const found = findSpots(signal, width, options.region).spots;
-        const spots = firstCandidates(found, options.centre ?? null);
+        const pool = candidateOrder(findSpots(signal, width, options.region).spots, options.centre ?? null);
+        const spots = pool.slice(0, MOST_CANDIDATES);
         if (spots.length > 0) {
-          unfollowed = found.length - spots.length;
+          unfollowed = pool.length - spots.length;
           for (const s of spots) followers.push(createSpotFollower({ region: options.region, start: { x_px: s.x_px, y_px: s.y_px }, centre: options.centre }));
           paths = new MarkerPathStore(followers.length);
           for (let i = 0; i < frames; i++) paths.pushLost('lost:no-blob');
@@ -69,9 +69,14 @@ export function createMarkerHypotheses(options: { region: Window; centre?: { x_p
  * often bigger than a marker, would otherwise crowd it out), else the biggest.
  */
 export function firstCandidates<S extends { x_px: number; y_px: number }>(spots: S[], centre: { x_px: number; y_px: number } | null): S[] {
-  if (!centre) return spots.slice(0, MOST_CANDIDATES);
+  return candidateOrder(spots, centre).slice(0, MOST_CANDIDATES);
+}
+
+/** Every first-frame spot that could be the marker, best first (see firstCandidates). */
+function candidateOrder<S extends { x_px: number; y_px: number }>(spots: S[], centre: { x_px: number; y_px: number } | null): S[] {
+  if (!centre) return spots;
   const distance = (s: S) => Math.hypot(s.x_px - centre.x_px, s.y_px - centre.y_px);
-  return spots.filter((s) => distance(s) >= MIN_PATH_RADIUS_PX).sort((a, b) => distance(a) - distance(b)).slice(0, MOST_CANDIDATES);
+  return spots.filter((s) => distance(s) >= MIN_PATH_RADIUS_PX).sort((a, b) => distance(a) - distance(b));
 }
 
 /** The detections of a track: its positions with the lost frames (NaN) left out, px. */

@@ -368,8 +368,8 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     }
     if (lost > 0.1 * n) {
       const skipped = follower?.unfollowed ?? 0;
-      const why = skipped > 0 ? ` The first frame showed ${skipped} more spot${skipped === 1 ? '' : 's'} than were followed (the ${centre ? 'nearest to --center' : 'biggest'}), so the marker may not have been among them: give --roi around the marker's circle.` : '';
-      warnings.push(`The marker was lost in ${((100 * lost) / n).toFixed(0)}% of frames; check the region, the marker kind and the preview.${why}`);
+      const why = skipped > 0 ? `; the first frame showed ${skipped} more spot${skipped === 1 ? '' : 's'} than were followed (the ${centre ? 'nearest to --center' : 'biggest'}), so the marker may not have been among them: give --roi around the marker's circle` : '';
+      warnings.push(`The marker was lost in ${((100 * lost) / n).toFixed(0)}% of frames; check the region, the marker kind and the preview${why}.`);
     }
 
     const series: AngleSeries = {
