@@ -150,20 +150,32 @@ export function sweptArc_px(x_px: ArrayLike<number>, y_px: ArrayLike<number>, ce
  * furthest round the centre, when any went MIN_PATH_RADIUS_PX or more; else (a hub at rest) the one nearest the centre.
  */
 export function pickMarkerTrack(paths: MarkerPathStore, centre: { x_px: number; y_px: number } | null): number {
+  return pickMarkerTrackWithNote(paths, centre).index;
+}
+
+/**
+ * pickMarkerTrack, and a sentence when the choice was made only by nearness to the centre among several spots
+ * that all kept still (the rotor at rest, or a still part of the rig nearer the axis than the marker: a person
+ * should check preview.png before reading "it does not turn" from the result).
+ */
+export function pickMarkerTrackWithNote(paths: MarkerPathStore, centre: { x_px: number; y_px: number } | null): { index: number; note: string | null } {
   const sx = (k: number) => paths.sx_px[k].subarray(0, paths.n);
   const sy = (k: number) => paths.sy_px[k].subarray(0, paths.n);
   const scores = Array.from({ length: paths.count }, (_, k) => circularPathScore(sx(k), sy(k), centre));
   const bestScore = Math.max(...scores);
   const first = scores.indexOf(bestScore);
-  if (!centre || !(bestScore > 0)) return first;
+  if (!centre || !(bestScore > 0)) return { index: first, note: null };
   const near = scores.flatMap((s, k) => (s >= NEAR_BEST_SHARE * bestScore ? [k] : []));
-  if (near.length === 1) return first;
+  if (near.length === 1) return { index: first, note: null };
   const swept = near.map((k) => sweptArc_px(sx(k), sy(k), centre));
   const most = Math.max(...swept);
-  if (most >= MIN_PATH_RADIUS_PX) return near[swept.indexOf(most)]!;
+  if (most >= MIN_PATH_RADIUS_PX) return { index: near[swept.indexOf(most)]!, note: null };
   const distance = near.map((k) => {
     const { xs, ys } = detections(sx(k), sy(k));
     return upperMedian(xs.map((x, i) => Math.hypot(x - centre.x_px, ys[i]! - centre.y_px)));
   });
-  return near[distance.indexOf(Math.min(...distance))]!;
+  return {
+    index: near[distance.indexOf(Math.min(...distance))]!,
+    note: `${near.length} spots kept still at a steady distance from --center, and the one nearest it (${Math.min(...distance).toFixed(0)} px) was taken for the marker; if the rotor may have turned, check in preview.png that this is the marker before reading its rate`,
+  };
 }

@@ -13,7 +13,7 @@ import { colourSimilarityTable } from './colourDistanceTable.js';
 import { fitCircle, type Circle } from './fitCircle.js';
 import { fitPathEllipse, type RobustEllipseFit } from './fitEllipseRobust.js';
 import { rotorPlaneAngle, wrapDeg, type ViewGeometry } from './rotorPlaneAngle.js';
-import { createMarkerHypotheses, pickMarkerTrack } from './markerHypotheses.js';
+import { createMarkerHypotheses, pickMarkerTrackWithNote } from './markerHypotheses.js';
 import { offCircle } from './pathCheck.js';
 import { createMarkerFollowers } from './followMarkers.js';
 import { MarkerPathStore } from './MarkerPathStore.js';
@@ -212,7 +212,8 @@ export async function trackVideo(path: string, options: TrackOptions = {}): Prom
     const n = store.n;
     const candidates = !multi ? follower?.paths : null;
     if (candidates) {
-      const k = pickMarkerTrack(candidates, centre);
+      const { index: k, note } = pickMarkerTrackWithNote(candidates, centre);
+      if (note) warnings.push(`${note[0]!.toUpperCase()}${note.slice(1)}.`);
       for (let i = 0; i < n; i++) {
         if (store.flag[i] === 'lost:camera') continue;
         store.x[i] = candidates.x_px[k][i];

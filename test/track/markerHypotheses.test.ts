@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { findSpots } from '../../src/track/findSpots.js';
-import { circularPathScore, firstCandidates, pickMarkerTrack } from '../../src/track/markerHypotheses.js';
+import { circularPathScore, firstCandidates, pickMarkerTrack, pickMarkerTrackWithNote } from '../../src/track/markerHypotheses.js';
 import { MarkerPathStore } from '../../src/track/MarkerPathStore.js';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
@@ -81,8 +81,11 @@ describe('pickMarkerTrack about a given centre', () => {
     expect(pickMarkerTrack(storeOf([still(29, 22, 90), turning]), centre)).toBe(1);
   });
 
-  it('with a hub at rest (nothing goes round), takes the still spot nearest the centre', () => {
-    expect(pickMarkerTrack(storeOf([still(29, 22, 60), still(241, 120, 60)]), centre)).toBe(1);
+  it('with a hub at rest (nothing goes round), takes the still spot nearest the centre, and says so', () => {
+    const pick = pickMarkerTrackWithNote(storeOf([still(29, 22, 60), still(241, 120, 60)]), centre);
+    expect(pick.index).toBe(1);
+    expect(pick.note).toBe('2 spots kept still at a steady distance from --center, and the one nearest it (81 px) was taken for the marker; if the rotor may have turned, check in preview.png that this is the marker before reading its rate');
+    expect(pickMarkerTrackWithNote(storeOf([still(241, 120, 60)]), centre).note).toBeNull(); // one spot: nothing to choose
   });
 
   it('keeps the far better score: a spot that scores under 0.9 of the best is not taken for moving more', () => {
