@@ -107,5 +107,8 @@ export function registerFit(program: Command): void {
       );
       await writeFitOutputs(o.out, result);
       process.stdout.write(fitSummaryText(result.report, o.out));
+      const [first, last] = [table.t_s[0]!, table.t_s[table.t_s.length - 1]!];
+      if (from !== undefined && from < first) process.stderr.write(`note: --from ${from} s is before the first row (${first} s); the window starts there\n`);
+      if (to !== undefined && to > last) process.stderr.write(`note: --to ${to} s is past the last row (${last} s); the window ends there\n`);
     });
 }

@@ -96,6 +96,13 @@ describe('revtrace fit', () => {
     expect(existsSync(join(own, 'fit.json'))).toBe(false);
   });
 
+  it('notes a window reaching past the data, and fits the data there is', () => {
+    const out = join(dir, 'wide', 'fit.json');
+    const r = run(['fit', anglePath, '--out', out, '--from', '-1', '--to', '500']);
+    expect(r.status).toBe(0);
+    expect(r.stderr).toBe('note: --from -1 s is before the first row (2 s); the window starts there\nnote: --to 500 s is past the last row (21.966667 s); the window ends there\n');
+  });
+
   it('exits 2 for a table without an angle_deg column', () => {
     const p = join(dir, 'noangle.csv');
     writeFileSync(p, 't_s,theta\n' + Array.from({ length: 20 }, (_, i) => `${i},${i}`).join('\n'));
