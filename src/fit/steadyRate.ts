@@ -373,37 +373,30 @@ function estimate(value: number, se: number, df: number, level: number): Estimat
  * term is then about F(1, ν_s), not χ²_1, and on steady white-noise series it fired at p < 0.01 in about a
  * quarter of the seeded replicates. Returns null when a segment has no usable standard error.
  */
-export function segmentHomogeneityP(fits: readonly { slope: number; se: number; df: number; modelSe: number }[]): number | null {
+export function segmentHomogeneityP(fits: readonly SegmentSlope[]): number | null {
+  const pooled = poolSegments(fits);
+  if (!pooled) return null;
   const k = fits.length;
-  if (k < 2 || !fits.every((f) => f.se > 0 && Number.isFinite(f.se) && f.df > 0 && f.modelSe > 0 && Number.isFinite(f.modelSe))) return null;
-  let sw = 0;
-  let swb = 0;
-  let nu = 0;
-  let ratio = 0;
-  for (const f of fits) {
-    const v = f.modelSe ** 2;
-    sw += 1 / v;
-    swb += f.slope / v;
-    nu += f.df;
-    ratio += f.df * (f.se ** 2 / v);
-  }
-  const scale = ratio / nu;
-  const mean = swb / sw;
   let q = 0;
-  for (const f of fits) q += (f.slope - mean) ** 2 / f.modelSe ** 2;
-  const stat = q / ((k - 1) * scale);
-  return 1 - jStat.centralF.cdf(stat, k - 1, nu);
+  for (const f of fits) q += (f.slope - pooled.mean) ** 2 / f.modelSe ** 2;
+  const stat = q / ((k - 1) * pooled.scale);
+  return 1 - jStat.centralF.cdf(stat, k - 1, pooled.nu);
+}
+
+/** One segment's slope fit as the segment tests read it: slope, jackknife se with its df, and the model-based se. */
+interface SegmentSlope {
+  slope: number;
+  se: number;
+  df: number;
+  modelSe: number;
 }
 
 /**
- * p-value of "the rate inside the segments equals the rate of the whole window": d = ω̄_within − ω̂_whole, with
- * ω̄_within the 1/v_s-weighted mean of the segment slopes. Under a steady rate both estimate it and the whole-window
- * fit is the efficient one, so Var(d) = Var(ω̄_within) − Var(ω̂_whole) (Hausman 1978, Econometrica 46:1251; from
- * memory), with model-based variances scaled by the segments' pooled jackknife factor ĉ and referred to F(1, ν) as
- * in segmentHomogeneityP. A jump of the angle between segments (a splice, a skipped turn, a tracking jump) leaves
- * every segment's slope alone but moves the whole-window slope. Also returns ω̄_within, deg/s. Null when the variances are not usable.
+ * What both segment tests pool over two or more segments: the 1/v_s-weighted mean slope (v_s = modelSe²) and the
+ * variance of that mean (1/Σ 1/v_s), the summed df ν, and the common variance factor ĉ = Σν_s·(se_s²/v_s)/ν.
+ * Null when there are fewer than two segments or a segment has no usable standard error.
  */
-export function withinVersusWholeP(whole: { slope: number; modelSe: number }, fits: readonly { slope: number; se: number; df: number; modelSe: number }[]): { p: number; within_deg_s: number } | null {
+function poolSegments(fits: readonly SegmentSlope[]): { mean: number; meanVariance: number; nu: number; scale: number } | null {
   if (fits.length < 2 || !fits.every((f) => f.se > 0 && Number.isFinite(f.se) && f.df > 0 && f.modelSe > 0 && Number.isFinite(f.modelSe))) return null;
   let sw = 0;
   let swb = 0;
@@ -416,13 +409,25 @@ export function withinVersusWholeP(whole: { slope: number; modelSe: number }, fi
     nu += f.df;
     ratio += f.df * (f.se ** 2 / v);
   }
-  const within = swb / sw;
-  const vWithin = 1 / sw;
+  return { mean: swb / sw, meanVariance: 1 / sw, nu, scale: ratio / nu };
+}
+
+/**
+ * p-value of "the rate inside the segments equals the rate of the whole window": d = ω̄_within − ω̂_whole, with
+ * ω̄_within the 1/v_s-weighted mean of the segment slopes. Under a steady rate both estimate it and the whole-window
+ * fit is the efficient one, so Var(d) = Var(ω̄_within) − Var(ω̂_whole) (Hausman 1978, Econometrica 46:1251; from
+ * memory), with model-based variances scaled by the segments' pooled jackknife factor ĉ and referred to F(1, ν) as
+ * in segmentHomogeneityP. A jump of the angle between segments (a splice, a skipped turn, a tracking jump) leaves
+ * every segment's slope alone but moves the whole-window slope. Also returns ω̄_within, deg/s. Null when the variances are not usable.
+ */
+export function withinVersusWholeP(whole: { slope: number; modelSe: number }, fits: readonly SegmentSlope[]): { p: number; within_deg_s: number } | null {
+  const pooled = poolSegments(fits);
+  if (!pooled) return null;
   // never below a tenth of the within variance: the two variances are estimates, and their difference can vanish
-  const vDiff = Math.max(vWithin - whole.modelSe ** 2, 0.1 * vWithin) * (ratio / nu);
+  const vDiff = Math.max(pooled.meanVariance - whole.modelSe ** 2, 0.1 * pooled.meanVariance) * pooled.scale;
   if (!(vDiff > 0) || !Number.isFinite(vDiff)) return null;
-  const stat = (within - whole.slope) ** 2 / vDiff;
-  return { p: 1 - jStat.centralF.cdf(stat, 1, nu), within_deg_s: within };
+  const stat = (pooled.mean - whole.slope) ** 2 / vDiff;
+  return { p: 1 - jStat.centralF.cdf(stat, 1, pooled.nu), within_deg_s: pooled.mean };
 }
 
 /** True when y is a straight line in t to within rounding (largest least-squares residual ≤ 1e-9 of the angle span, deg). */
