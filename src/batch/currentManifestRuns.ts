@@ -1,11 +1,12 @@
 import { readFile } from 'node:fs/promises';
 import { parse } from 'csv-parse/sync';
+import { MANIFEST_CSV } from './parseManifest.js';
 import { readRunRecords } from './rebuildSummary.js';
 
 /** The run ids a manifest file lists now (its "run" column), or null when it cannot be read as one. */
 async function listedRuns(path: string): Promise<Set<string> | null> {
   try {
-    const rows = parse(await readFile(path), { bom: true, relax_column_count: true, skip_empty_lines: true, comment: '#', comment_no_infix: true }) as string[][];
+    const rows = parse(await readFile(path), MANIFEST_CSV) as string[][];
     const column = (rows[0] ?? []).findIndex((h) => h.trim().toLowerCase() === 'run');
     if (column < 0) return null;
     return new Set(rows.slice(1).map((r) => (r[column] ?? '').trim()).filter((id) => id !== ''));

@@ -9,6 +9,9 @@ import { DEFAULT_RUN_SETTINGS, type RunSettings } from './RunSettings.js';
 import { COLUMN_ALIASES, SETTING_COLUMNS, crossSettingProblems, parseDecimal } from './settingColumns.js';
 import { runIdProblem } from './runIdProblem.js';
 
+/** How a manifest is read as CSV: a spreadsheet's byte-order mark, ragged rows, blank lines and # comment lines allowed. */
+export const MANIFEST_CSV = { bom: true, relax_column_count: true, skip_empty_lines: true, comment: '#', comment_no_infix: true } as const;
+
 export interface ParseManifestOptions {
   /** Defaults file; default: `<manifest name>.defaults.json` beside the manifest, when it exists. */
   defaultsPath?: string;
@@ -100,7 +103,7 @@ export async function parseManifest(manifestPath: string, options: ParseManifest
 
   let records: { record: string[]; info: { lines: number } }[];
   try {
-    records = parse(bytes, { bom: true, info: true, relax_column_count: true, skip_empty_lines: true, comment: '#', comment_no_infix: true }) as unknown as typeof records;
+    records = parse(bytes, { ...MANIFEST_CSV, info: true }) as unknown as typeof records;
   } catch (err) {
     const e = err as { message: string; lines?: number };
     throw new ManifestError(file, [{ line: e.lines ?? null, column: null, column_name: null, message: `is not valid CSV (${e.message}); check quotes and separators` }]);
