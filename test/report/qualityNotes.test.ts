@@ -1,22 +1,16 @@
 // The report's data-quality notes: one sentence each, naming what a person can check.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtemp, rm } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { loadReportData } from '../../src/report/loadReportData.js';
 import { qualityNotes } from '../../src/report/qualityNotes.js';
 import type { RunData } from '../../src/report/ReportData.js';
-import { SMALL_DAY, writeTestBatch } from './writeTestBatch.js';
+import { loadFirstTestRun } from './writeTestBatch.js';
 
-let dir: string;
 let run: RunData;
+let remove: () => Promise<void>;
 beforeAll(async () => {
-  dir = await mkdtemp(join(tmpdir(), 'revtrace-notes-'));
-  await writeTestBatch(dir, SMALL_DAY.slice(0, 1));
-  run = (await loadReportData(dir)).runs[0]!;
+  ({ run, remove } = await loadFirstTestRun('notes'));
 });
 afterAll(async () => {
-  await rm(dir, { recursive: true, force: true });
+  await remove();
 });
 
 describe('qualityNotes, correlated residuals', () => {

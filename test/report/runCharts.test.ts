@@ -1,23 +1,16 @@
 // runChartSpecs: the per-run marker-path chart draws one fitted ellipse per marker.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { mkdtemp, rm } from 'node:fs/promises';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { loadReportData } from '../../src/report/loadReportData.js';
 import type { RunData } from '../../src/report/ReportData.js';
 import { runChartSpecs } from '../../src/report/runCharts.js';
-import { SMALL_DAY, writeTestBatch } from './writeTestBatch.js';
+import { loadFirstTestRun } from './writeTestBatch.js';
 
-let dir: string;
 let run: RunData;
-
+let remove: () => Promise<void>;
 beforeAll(async () => {
-  dir = await mkdtemp(join(tmpdir(), 'revtrace-runcharts-'));
-  await writeTestBatch(dir, SMALL_DAY.slice(0, 1));
-  run = (await loadReportData(dir)).runs[0]!;
+  ({ run, remove } = await loadFirstTestRun('runcharts'));
 });
 afterAll(async () => {
-  await rm(dir, { recursive: true, force: true });
+  await remove();
 });
 
 /** The ellipse layer of the path chart: its points grouped by marker, each as distances from the centre along the major axis. */

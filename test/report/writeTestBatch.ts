@@ -1,13 +1,16 @@
 // Test inputs only: writes small, seeded run folders in the layout the batch stage produces
 // (runs/<run>/{angle.csv,rate.csv,fit.json,track.json,preview.png,run.json}) so the report can be tested
 // before and independently of the real pipeline. All numbers here are invented for the tests.
-import { mkdir, writeFile } from 'node:fs/promises';
+import { mkdir, mkdtemp, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
 import type { Direction, RunRecord } from '../../src/batch/RunRecord.js';
 import type { FitReport } from '../../src/fit/FitReport.js';
 import type { TrackSummary } from '../../src/track/TrackSummary.js';
 import { seededRandom } from '../../src/synth/seededRandom.js';
+import { loadReportData } from '../../src/report/loadReportData.js';
+import type { RunData } from '../../src/report/ReportData.js';
 
 export interface TestRun {
   run: string;
@@ -146,4 +149,11 @@ export const SMALL_DAY: TestRun[] = [
 export async function writeTestBatch(outDir: string, runs: TestRun[] = SMALL_DAY): Promise<void> {
   let seed = 1;
   for (const r of runs) await writeTestRun(outDir, r, seed++);
+}
+
+/** The first run of SMALL_DAY written into a fresh temporary batch folder and loaded as the report reads it; `remove` deletes the folder. */
+export async function loadFirstTestRun(prefix: string): Promise<{ run: RunData; remove: () => Promise<void> }> {
+  const dir = await mkdtemp(join(tmpdir(), `revtrace-${prefix}-`));
+  await writeTestBatch(dir, SMALL_DAY.slice(0, 1));
+  return { run: (await loadReportData(dir)).runs[0]!, remove: () => rm(dir, { recursive: true, force: true }) };
 }
